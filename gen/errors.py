@@ -1,0 +1,45 @@
+"""The project's exception root and the parameter error that names where a value came from."""
+
+from __future__ import annotations
+
+
+class PitchlineError(Exception):
+    """Base of every error pitchline raises on purpose (never a bare Exception)."""
+
+
+class ParamError(PitchlineError):
+    """A parameter file value is missing, malformed or out of range.
+
+    The message names the file, line, part, key, value and what is allowed, in one line.
+    """
+
+    def __init__(self, message: str, *, file: str | None = None, line: int | None = None,
+                 part: str | None = None, key: str | None = None, value=None,
+                 allowed: str | None = None):
+        self.file, self.line, self.part, self.key = file, line, part, key
+        self.value, self.allowed, self.detail = value, allowed, message
+        super().__init__(self.one_line())
+
+    def one_line(self) -> str:
+        where = self.file or "<input>"
+        if self.line is not None:
+            where += f":{self.line}"
+        bits = [where]
+        if self.part:
+            bits.append(f"part '{self.part}'")
+        if self.key:
+            bits.append(f"key '{self.key}'")
+        text = ", ".join(bits) + ": " + self.detail
+        if self.value is not None and "got" not in self.detail:
+            text += f" (got {self.value!r})"
+        if self.allowed:
+            text += f"; allowed: {self.allowed}"
+        return text
+
+
+class GeometryError(PitchlineError):
+    """Geometry could not be generated for otherwise well-formed parameters."""
+
+
+class ExportError(PitchlineError):
+    """Writing an output file failed; no partial file is left behind."""

@@ -1,0 +1,26 @@
+"""Every numeric tolerance in one place (mm unless stated)."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+
+@dataclass(frozen=True)
+class Tolerances:
+    #: golden-section refinement of the rack-rolling envelope (mm of arc)
+    envelope: float = 1e-9
+    #: generated flank vs analytic involute, and undercut detection (mm)
+    flank: float = 1e-6
+    #: measured profile size vs ISO 21771 formula (mm, absolute)
+    size: float = 2e-4
+    #: measured tooth thickness vs formula, as a fraction of the module
+    thickness_rel: float = 2e-3
+    #: chordal deviation of meshes from the exact profile (mm)
+    chord: float = 0.01
+    #: measured size on an exported STL vs formula (mm)
+    mesh_size: float = 0.02
+    #: angular pitch uniformity (rad)
+    angle: float = 1e-6
+
+
+TOL = Tolerances()

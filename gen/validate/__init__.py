@@ -1,0 +1,1 @@
+"""Measure generated geometry and compare it with the standard formulas (numpy only)."""
