@@ -8,6 +8,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
+from gen.errors import GeometryError
 from gen.geometry.basic_rack import BasicRack
 from gen.geometry.generate import Cutter
 
@@ -77,14 +78,23 @@ def cutter_for(sizes: GearSizes, rack: BasicRack) -> Cutter:
     """The generating rack that cuts ``sizes`` (transverse section of the normal-plane rack).
 
     Thinning widens the cutter tooth: the transverse arc thinning Δs becomes Δs·cos β in the
-    normal plane, half of it per flank.
+    normal plane, half of it per flank. Where the basic rack's root radius does not fit on the
+    cutter tip (large pressure angles) the tip is made a full round instead.
     """
     mn = sizes.mn
     cb = math.cos(sizes.beta)
-    return Cutter(alpha_n=rack.alpha,
-                  half_width_n=math.pi * mn / 4.0 + sizes.thinning * cb / 2.0,
+    a = rack.alpha
+    half = math.pi * mn / 4.0 + sizes.thinning * cb / 2.0
+    # a large pressure angle leaves no tip flat for the profile's root radius: then the cutter
+    # tip becomes a full round, the largest radius that fits
+    rho_max = (half - rack.dedendum * mn * math.tan(a)) * math.cos(a) / (1.0 - math.sin(a))
+    if rho_max <= 0:
+        raise GeometryError("the generating rack tooth comes to a point above its full depth at "
+                            "this pressure angle: lower the pressure angle or the dedendum")
+    return Cutter(alpha_n=a,
+                  half_width_n=half,
                   tip_depth=rack.dedendum * mn,
-                  tip_radius=rack.root_radius * mn,
+                  tip_radius=min(rack.root_radius * mn, rho_max),
                   shift=sizes.x * mn,
                   stretch=1.0 / cb,
                   top=(sizes.ra - sizes.rp) + mn)

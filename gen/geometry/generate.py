@@ -212,3 +212,9 @@ def generate_flank(z: int, rp: float, cutter: Cutter, r_tip: float,
     piece = np.where(r <= r_j, FILLET, FLANK)
     piece[0] = TIP
     return Flank(z=z, rp=rp, r=r, psi=psi, piece=piece, r_root=r_root, r_tip=r_tip, r_junction=r_j)
+
+
+def psi_exact(cutter: Cutter, rp: float, z: int, r) -> np.ndarray:
+    """Generated half tooth-thickness angle at radii r, evaluated afresh (not interpolated)."""
+    psi, _ = _psi(cutter, rp, z, np.atleast_1d(np.asarray(r, dtype=float)))
+    return psi

@@ -41,9 +41,16 @@ def circle_crossings(poly: np.ndarray, R: float):
     return ang, outward
 
 
+def ccw(poly: np.ndarray) -> np.ndarray:
+    """The polygon in counter-clockwise order."""
+    x, y = poly[:, 0], poly[:, 1]
+    area = np.dot(x, np.roll(y, -1)) - np.dot(y, np.roll(x, -1))
+    return poly if area >= 0 else poly[::-1]
+
+
 def material_arcs(poly: np.ndarray, R: float):
-    """Angular intervals (start, width) of material on the circle R, counter-clockwise outline."""
-    ang, outward = circle_crossings(poly, R)
+    """Angular intervals (start, width) of material on the circle R around the outline."""
+    ang, outward = circle_crossings(ccw(poly), R)
     if len(ang) == 0:
         return np.zeros((0, 2))
     order = np.argsort(ang)

@@ -1,0 +1,9 @@
+"""Output formats: name → (file suffix, needs the CAD kernel)."""
+
+from __future__ import annotations
+
+FORMATS = {
+    "step": (".step", True),
+    "stl": (".stl", False),
+}
+DEFAULT_FORMATS = ("step", "stl")

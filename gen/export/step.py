@@ -1,0 +1,51 @@
+"""STEP (ISO 10303-21, AP214) export with deterministic bytes."""
+
+from __future__ import annotations
+
+import os
+import re
+
+from gen.errors import ExportError
+from gen.export.atomic import temp_path, write_atomic
+
+_STAMP = re.compile(rb"FILE_NAME\('([^']*)','[^']*'")
+
+
+def step_bytes(shape, name: str, workdir: str) -> bytes:
+    """STEP text of ``shape`` with the product named ``name`` and a fixed time stamp."""
+    import cadquery as cq  # noqa: F401  (kernel loaded only when a STEP is made)
+    from OCP.IFSelect import IFSelect_RetDone
+    from OCP.Interface import Interface_Static
+    from OCP.STEPControl import STEPControl_AsIs, STEPControl_Writer
+
+    Interface_Static.SetCVal_s("write.step.schema", "AP214IS")
+    Interface_Static.SetCVal_s("write.step.product.name", name)
+    writer = STEPControl_Writer()
+    shapes = shape if isinstance(shape, (list, tuple)) else [shape]
+    for s in shapes:
+        if writer.Transfer(s.wrapped, STEPControl_AsIs) != IFSelect_RetDone:
+            raise ExportError(f"STEP transfer failed for {name}")
+    tmp = temp_path(workdir, ".step")
+    try:
+        if writer.Write(tmp) != IFSelect_RetDone:
+            raise ExportError(f"STEP write failed for {name}")
+        with open(tmp, "rb") as fh:
+            data = fh.read()
+    finally:
+        if os.path.exists(tmp):
+            os.unlink(tmp)
+    return _STAMP.sub(lambda m: b"FILE_NAME('" + name.encode() + b"','1970-01-01T00:00:00'",
+                      data, count=1)
+
+
+def write_step(shape, path: str, name: str) -> int:
+    data = step_bytes(shape, name, os.path.dirname(os.path.abspath(path)))
+    write_atomic(path, data)
+    return len(data)
+
+
+def read_step(path: str):
+    """Re-import a STEP file (cadquery) and return its shape."""
+    import cadquery as cq
+
+    return cq.importers.importStep(path).val()

@@ -1,0 +1,17 @@
+"""Binary STL export from a trimesh mesh (deterministic bytes)."""
+
+from __future__ import annotations
+
+from gen.export.atomic import write_atomic
+
+
+def stl_bytes(mesh) -> bytes:
+    from trimesh.exchange.stl import export_stl
+
+    return export_stl(mesh)
+
+
+def write_stl(mesh, path: str) -> int:
+    data = stl_bytes(mesh)
+    write_atomic(path, data)
+    return len(data)

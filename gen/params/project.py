@@ -1,0 +1,209 @@
+"""Read parameter files into raw part, mesh and drive declarations.
+
+Structure only: which parts exist (from ``parts:`` and from ``trains:``, with the train's
+shared tooth-system values merged in), their kinds, names and source lines, and the declared
+pairs. Per-kind keys are checked by the part kinds (:mod:`gen.parts`), which sit above this
+layer.
+
+File layout (units mm and degrees)::
+
+    parts:   {<name>: {kind: spur_gear, module: 2, teeth: 20, ...}}
+    trains:  {<name>: {module: 1.5, pressure_angle: 20, parts: {<name>: {...}}}}
+    meshes:  [{parts: [a, b], center_distance: 43.1}]
+"""
+
+from __future__ import annotations
+
+import os
+import re
+from dataclasses import dataclass, field
+
+from gen.errors import ParamError
+from gen.params.schema import suggest
+from gen.params.yamlio import Doc, InputError, load_file
+
+#: tooth-system keys a train gives once for all its parts
+TRAIN_SHARED = ("module", "pressure_angle", "helix_angle", "profile", "module_basis")
+#: top-level sections and who reads them
+SECTIONS = ("parts", "trains", "meshes", "assemblies", "drives", "fits")
+NAME_RE = re.compile(r"^[A-Za-z0-9][A-Za-z0-9_.-]{0,63}$")
+RESERVED = {"manifest", "report", "plate", "con", "prn", "aux", "nul"}
+
+
+@dataclass(frozen=True)
+class RawPart:
+    name: str
+    kind: str
+    values: dict          # as written, train values merged in (degrees, mm)
+    file: str
+    train: str | None
+    lines: dict           # key -> line
+
+    def line(self, key: str | None = None) -> int | None:
+        if key is not None:
+            root = key.split(".")[0]
+            if root in self.lines:
+                return self.lines[root]
+        return self.lines.get(None)
+
+
+@dataclass(frozen=True)
+class RawEntry:
+    """A ``meshes``, ``assemblies`` or ``drives`` entry: a mapping plus where it came from."""
+
+    section: str
+    index: int | str
+    values: dict
+    file: str
+    lines: dict
+
+    def line(self, key: str | None = None) -> int | None:
+        return self.lines.get(key, self.lines.get(None))
+
+    @property
+    def label(self) -> str:
+        return f"{self.section}[{self.index}]" if isinstance(self.index, int) else str(self.index)
+
+
+@dataclass
+class RawProject:
+    files: list = field(default_factory=list)
+    parts: dict = field(default_factory=dict)          # name -> RawPart
+    trains: dict = field(default_factory=dict)         # name -> list of part names
+    entries: dict = field(default_factory=dict)        # section -> [RawEntry]
+
+
+def find_files(paths) -> list[str]:
+    """YAML files named or found (non-recursively sorted, recursively) in folders."""
+    out = []
+    for p in paths:
+        if os.path.isdir(p):
+            found = []
+            for root, dirs, files in os.walk(p):
+                dirs.sort()
+                found += [os.path.join(root, f) for f in sorted(files)
+                          if f.endswith((".yaml", ".yml"))]
+            if not found:
+                raise InputError("folder holds no .yaml files", file=p)
+            out += found
+        elif os.path.exists(p):
+            out.append(p)
+        else:
+            raise InputError("no such file or folder", file=p)
+    return out
+
+
+def check_name(name, doc: Doc, keys, what="part") -> str:
+    line = doc.line(*keys)
+    if not isinstance(name, str) or not NAME_RE.match(name) or name.lower() in RESERVED:
+        raise ParamError(f"{what} name {name!r} is not allowed: use letters, digits, '_', '-', "
+                         f"'.'; start with a letter or digit; at most 64 characters; not a "
+                         f"reserved name", file=doc.path, line=line)
+    return name
+
+
+def load_project(paths) -> RawProject:
+    proj = RawProject()
+    for path in find_files(paths):
+        doc = load_file(path)
+        proj.files.append(path)
+        _read_doc(doc, proj)
+    return proj
+
+
+def _mapping(value, doc: Doc, keys, what: str) -> dict:
+    if not isinstance(value, dict):
+        raise ParamError(f"{what} must be a mapping", file=doc.path, line=doc.line(*keys),
+                         value=value if not isinstance(value, (list, dict)) else None)
+    return value
+
+
+def _lines_for(doc: Doc, keys, mapping: dict) -> dict:
+    lines = {None: doc.line(*keys)}
+    for k in mapping:
+        lines[k] = doc.line(*keys, k)
+    return lines
+
+
+def _add_part(proj: RawProject, doc: Doc, name, body, keys, train=None, shared=None):
+    name = check_name(name, doc, keys)
+    body = _mapping(body, doc, keys, f"part '{name}'")
+    if name in proj.parts:
+        other = proj.parts[name]
+        raise ParamError(f"duplicate part name '{name}' (also in {other.file}"
+                         f"{':' + str(other.line()) if other.line() else ''})",
+                         file=doc.path, line=doc.line(*keys), part=name)
+    kind = body.get("kind")
+    if kind is None:
+        raise ParamError("is required", file=doc.path, line=doc.line(*keys), part=name, key="kind")
+    if not isinstance(kind, str):
+        raise ParamError("must be text", file=doc.path, line=doc.line(*keys, "kind"), part=name,
+                         key="kind", value=kind)
+    values = {k: v for k, v in body.items() if k != "kind"}
+    lines = _lines_for(doc, keys, body)
+    if shared:
+        for k, v in shared.items():
+            if k in values:
+                raise ParamError(f"is set by train '{train}' for all its parts; remove it here "
+                                 "or move the part out of the train", file=doc.path,
+                                 line=lines.get(k), part=name, key=k, value=values[k])
+            values[k] = v
+            lines[k] = doc.line("trains", train, k)
+    proj.parts[name] = RawPart(name=name, kind=kind, values=values, file=doc.path, train=train,
+                               lines=lines)
+    if train:
+        proj.trains[train].append(name)
+
+
+def _read_doc(doc: Doc, proj: RawProject):
+    data = doc.data
+    if data is None or data == {}:
+        raise InputError("file is empty", file=doc.path)
+    if not isinstance(data, dict):
+        raise InputError("top level must be a mapping with 'parts', 'trains', 'meshes', ...",
+                         file=doc.path, line=1)
+    for key in data:
+        if key not in SECTIONS:
+            raise ParamError(f"unknown section '{key}'{suggest(str(key), SECTIONS)}",
+                             file=doc.path, line=doc.line(key), allowed=", ".join(SECTIONS))
+    for name, body in _mapping(data.get("parts") or {}, doc, ("parts",), "'parts'").items():
+        _add_part(proj, doc, name, body, ("parts", name))
+    for tname, tbody in _mapping(data.get("trains") or {}, doc, ("trains",), "'trains'").items():
+        check_name(tname, doc, ("trains", tname), what="train")
+        tbody = _mapping(tbody, doc, ("trains", tname), f"train '{tname}'")
+        if tname in proj.trains:
+            raise ParamError(f"duplicate train name '{tname}'", file=doc.path,
+                             line=doc.line("trains", tname))
+        proj.trains[tname] = []
+        for k in tbody:
+            if k not in TRAIN_SHARED and k != "parts":
+                raise ParamError(f"unknown train key '{k}'{suggest(str(k), TRAIN_SHARED + ('parts',))}",
+                                 file=doc.path, line=doc.line("trains", tname, k),
+                                 allowed=", ".join(TRAIN_SHARED + ("parts",)))
+        shared = {k: v for k, v in tbody.items() if k != "parts"}
+        parts = _mapping(tbody.get("parts") or {}, doc, ("trains", tname, "parts"),
+                         f"train '{tname}' parts")
+        if not parts:
+            raise ParamError(f"train '{tname}' has no parts", file=doc.path,
+                             line=doc.line("trains", tname))
+        for name, body in parts.items():
+            _add_part(proj, doc, name, body, ("trains", tname, "parts", name), tname, shared)
+    for section in ("meshes", "assemblies", "drives"):
+        if section not in data or data[section] is None:
+            continue
+        value = data[section]
+        items = (list(enumerate(value)) if isinstance(value, list) else
+                 list(_mapping(value, doc, (section,), f"'{section}'").items()))
+        for idx, entry in items:
+            if isinstance(idx, str):
+                check_name(idx, doc, (section, idx), what=section[:-1])
+            entry = _mapping(entry, doc, (section, idx), f"{section} entry {idx}")
+            proj.entries.setdefault(section, []).append(
+                RawEntry(section=section, index=idx, values=entry, file=doc.path,
+                         lines=_lines_for(doc, (section, idx), entry)))
+    if "fits" in data:
+        value = _mapping(data["fits"], doc, ("fits",), "'fits'")
+        for name, body in value.items():
+            proj.entries.setdefault("fits", []).append(
+                RawEntry(section="fits", index=name, values=_mapping(body, doc, ("fits", name), f"fit '{name}'"),
+                         file=doc.path, lines=_lines_for(doc, ("fits", name), body)))

@@ -1,0 +1,127 @@
+"""Typed keys for parameter files: types, ranges, defaults, unit conversion, suggestions.
+
+User-facing angles are degrees; :class:`Key` with ``kind="angle"`` converts them to radians
+once, here. Lengths are mm and stay mm.
+"""
+
+from __future__ import annotations
+
+import difflib
+import math
+from dataclasses import dataclass, field
+
+from gen.errors import ParamError
+
+REQUIRED = object()
+
+
+@dataclass(frozen=True)
+class Key:
+    """One accepted key of a part kind (or of a nested mapping such as ``hub``).
+
+    kind: "int", "float", "angle" (deg in, rad out), "bool", "str", "enum", "map".
+    """
+
+    name: str
+    kind: str
+    default: object = None
+    lo: float | None = None
+    hi: float | None = None
+    lo_open: bool = False
+    hi_open: bool = False
+    choices: tuple = ()
+    unit: str = ""
+    doc: str = ""
+    sub: tuple = field(default_factory=tuple)   # nested Keys for kind="map"
+    scalar: str | None = None                   # for "map": sub-key a bare number stands for
+
+    @property
+    def required(self) -> bool:
+        return self.default is REQUIRED
+
+    def range_text(self) -> str:
+        if self.kind == "enum":
+            return ", ".join(str(c) for c in self.choices)
+        lo = "" if self.lo is None else f"{self.lo:g} {'<' if self.lo_open else '≤'} "
+        hi = "" if self.hi is None else f" {'<' if self.hi_open else '≤'} {self.hi:g}"
+        unit = f" {self.unit}" if self.unit else ""
+        if not lo and not hi:
+            return {"int": "a whole number", "float": "a finite number", "angle": "an angle in degrees",
+                    "bool": "true or false", "str": "text", "map": "a mapping"}.get(self.kind, self.kind)
+        return f"{lo}{self.name}{hi}{unit}"
+
+
+class Where:
+    """Context for messages: file, part and a line lookup."""
+
+    def __init__(self, file: str, part: str | None, line_of):
+        self.file, self.part, self._line_of = file, part, line_of
+
+    def error(self, key: str | None, msg: str, value=None, allowed=None) -> ParamError:
+        return ParamError(msg, file=self.file, line=self._line_of(key), part=self.part, key=key,
+                          value=value, allowed=allowed)
+
+
+def suggest(word: str, options) -> str:
+    close = difflib.get_close_matches(word, list(options), n=1, cutoff=0.6)
+    return f"; did you mean '{close[0]}'?" if close else ""
+
+
+def check_value(key: Key, value, where: Where, path: str | None = None):
+    name = path or key.name
+    k = key.kind
+    if k == "map":
+        if key.scalar is not None and not isinstance(value, dict):
+            value = {key.scalar: value}
+        if not isinstance(value, dict):
+            raise where.error(name, "must be a mapping", value, key.range_text())
+        return check_mapping(value, key.sub, where, prefix=name + ".")
+    if k == "bool":
+        if not isinstance(value, bool):
+            raise where.error(name, "must be true or false", value)
+        return value
+    if k in ("str", "enum"):
+        if not isinstance(value, str):
+            raise where.error(name, "must be text", value, key.range_text())
+        if k == "enum":
+            low = {str(c).lower(): c for c in key.choices}
+            if value.lower() not in low:
+                raise where.error(name, f"unknown value '{value}'{suggest(value, key.choices)}",
+                                  None, key.range_text())
+            return low[value.lower()]
+        return value
+    # numbers
+    if isinstance(value, bool) or not isinstance(value, (int, float)):
+        want = "a whole number" if k == "int" else "a number"
+        raise where.error(name, f"must be {want}", value, key.range_text())
+    if k == "int" and not isinstance(value, int):
+        raise where.error(name, "must be a whole number", value, key.range_text())
+    if not math.isfinite(float(value)):
+        raise where.error(name, "must be finite", value, key.range_text())
+    v = float(value) if k != "int" else int(value)
+    bad = ((key.lo is not None and (v < key.lo or (key.lo_open and v == key.lo))) or
+           (key.hi is not None and (v > key.hi or (key.hi_open and v == key.hi))))
+    if bad:
+        raise where.error(name, "out of range", value, key.range_text())
+    if k == "angle":
+        return math.radians(v)
+    return v
+
+
+def check_mapping(raw: dict, keys, where: Where, prefix: str = "") -> dict:
+    """Validate a mapping against ``keys``; returns a dict with defaults filled in."""
+    table = {k.name: k for k in keys}
+    out = {}
+    for name, value in raw.items():
+        if name not in table:
+            raise where.error(prefix + str(name), f"unknown key '{name}'{suggest(str(name), table)}",
+                              allowed=", ".join(sorted(table)))
+        if value is None:
+            raise where.error(prefix + name, "has no value", allowed=table[name].range_text())
+        out[name] = check_value(table[name], value, where, prefix + name)
+    for k in keys:
+        if k.name not in out:
+            if k.required:
+                raise where.error(prefix + k.name, "is required", allowed=k.range_text())
+            out[k.name] = k.default
+    return out

@@ -1,0 +1,33 @@
+"""Keys shared by several part kinds (mm and degrees in files; radians after checking)."""
+
+from __future__ import annotations
+
+from gen.params.schema import REQUIRED, Key
+
+MODULE = Key("module", "float", REQUIRED, lo=0.05, hi=50, unit="mm",
+             doc="normal module m_n (ISO 21771)")
+TEETH = Key("teeth", "int", REQUIRED, lo=1, hi=10000)
+PRESSURE_ANGLE = Key("pressure_angle", "angle", 20.0, lo=10, hi=35, unit="deg",
+                     doc="normal pressure angle of the basic rack")
+PROFILE = Key("profile", "enum", "A", choices=("A", "B", "C", "D"),
+              doc="ISO 53 basic rack profile (dedendum and root radius)")
+PROFILE_SHIFT = Key("profile_shift", "float", 0.0, lo=-1.0, hi=1.5,
+                    doc="profile shift coefficient x")
+FACE_WIDTH = Key("face_width", "float", REQUIRED, lo=0, hi=2000, lo_open=True, unit="mm")
+BACKLASH_ALLOWANCE = Key("backlash_allowance", "float", 0.0, lo=0, hi=5, unit="mm",
+                         doc="tooth thinning: arc thickness removed on the reference circle, "
+                             "both flanks together")
+TIP_SHORTENING = Key("tip_shortening", "float", 0.0, lo=0, hi=1,
+                     doc="tip shortening coefficient k (tip diameter reduced by 2 k m)")
+BORE = Key("bore", "map", None, scalar="diameter", sub=(
+    Key("diameter", "float", REQUIRED, lo=0, hi=2000, lo_open=True, unit="mm"),
+    Key("flat", "float", 0.0, lo=0, hi=1000, unit="mm", doc="D-flat depth"),
+    Key("keyway", "bool", False, doc="DIN 6885-1 hub keyway"),
+), doc="hole along the axis: a diameter, or {diameter, flat} / {diameter, keyway: true}")
+HUB = Key("hub", "map", None, sub=(
+    Key("diameter", "float", REQUIRED, lo=0, hi=2000, lo_open=True, unit="mm"),
+    Key("length", "float", REQUIRED, lo=0, hi=2000, lo_open=True, unit="mm"),
+), doc="plain cylindrical hub on the top face")
+FORCE = Key("force", "bool", False, doc="build despite an unusual tooth count")
+CHORD = Key("chord_tolerance", "float", 0.01, lo=0.0005, hi=0.5, unit="mm",
+            doc="largest deviation of mesh facets from the exact surface")

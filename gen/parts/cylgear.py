@@ -1,0 +1,123 @@
+"""Shared builder for cylindrical involute gears (spur, helical, herringbone).
+
+Each kind module (``spur_gear.py`` …) declares its keys and calls :func:`make_gear`.
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+
+from gen.errors import GeometryError
+from gen.geometry.basic_rack import basic_rack
+from gen.geometry.body import Body, Prism
+from gen.geometry.cylindrical import cutter_for, gear_sizes
+from gen.geometry.features import Bore
+from gen.geometry.gear_outline import gear_loop
+from gen.geometry.generate import generate_flank
+from gen.geometry.section import Section, circle
+from gen.parts.base import PartModel
+from gen.parts import common_keys as K
+from gen.validate.findings import ERROR, Finding
+from gen.validate.gear_checks import compare_sizes, gear_findings, measured_sizes
+
+GEAR_KEYS = (K.MODULE, K.TEETH, K.PRESSURE_ANGLE, K.PROFILE, K.PROFILE_SHIFT, K.FACE_WIDTH,
+             K.BACKLASH_ALLOWANCE, K.TIP_SHORTENING, K.BORE, K.HUB, K.FORCE, K.CHORD)
+
+
+def bore_of(values) -> Bore | None:
+    b = values.get("bore")
+    if not b:
+        return None
+    return Bore(diameter=b["diameter"], flat=b["flat"], keyway=b["keyway"],
+                allowance=values.get("hole_allowance", 0.0) or 0.0)
+
+
+def make_gear(name: str, values: dict, where, *, kind: str, beta: float = 0.0,
+              twist_sign: float = 0.0, chevron: bool = False) -> PartModel:
+    """Generate, measure and describe one cylindrical gear.
+
+    ``beta`` is the helix angle (rad); ``twist_sign`` +1 right hand, −1 left hand, 0 spur.
+    """
+    rack = basic_rack(values["profile"]).with_alpha(values["pressure_angle"])
+    m, z, b = values["module"], values["teeth"], values["face_width"]
+    sizes = gear_sizes(z, m, rack, x=values["profile_shift"], beta=beta,
+                       thinning=values["backlash_allowance"],
+                       tip_shortening=values["tip_shortening"])
+    findings = []
+    bore = bore_of(values)
+    try:
+        cutter = cutter_for(sizes, rack)
+        flank = generate_flank(z, sizes.rp, cutter, sizes.ra)
+    except GeometryError as exc:
+        raise where.error("teeth", str(exc), z) from None
+    # a pointed tooth has no outline: report it and stop
+    if flank.psi[-1] <= 0:
+        findings += gear_findings(name, sizes, cutter, flank, None, force=values["force"])
+        return _model(name, kind, values, None, sizes, findings, None, flank, beta)
+    loop = gear_loop(flank)
+    poly = loop.polygon(values["chord_tolerance"])
+    bore_r = None
+    holes = ()
+    if bore is not None:
+        try:
+            holes = (bore.loop(),)
+            bore_r = bore.outer_radius()
+        except GeometryError as exc:
+            raise where.error("bore", str(exc), values["bore"]) from None
+    findings += gear_findings(name, sizes, cutter, flank, poly, force=values["force"],
+                              addendum=rack.addendum, face_width=b, bore_radius=bore_r,
+                              rack_root=rack.root_radius * m)
+    twist = twist_sign * math.tan(beta) / sizes.rp if beta else 0.0
+    solids = [Prism(Section(loop, holes), 0.0, b, twist=twist, chevron=chevron)]
+    hub = values.get("hub")
+    if hub:
+        if hub["diameter"] / 2.0 >= sizes.rf:
+            findings.append(Finding(ERROR, "hub-too-big", f"hub diameter {hub['diameter']:g} mm "
+                                    f"reaches the root circle ({sizes.df:.3f} mm)", name, "geometry"))
+        if bore_r is not None and hub["diameter"] / 2.0 <= bore_r + 0.5:
+            findings.append(Finding(ERROR, "hub-too-thin", f"hub diameter {hub['diameter']:g} mm "
+                                    "leaves no wall around the bore", name, "geometry"))
+        solids.append(Prism(Section(circle(hub["diameter"] / 2.0), holes), b, b + hub["length"]))
+    body = Body(tuple(solids))
+    return _model(name, kind, values, body, sizes, findings, poly, flank, beta)
+
+
+def _model(name, kind, values, body, sizes, findings, poly, flank, beta):
+    manifest = {
+        "module": sizes.mn,
+        "teeth": sizes.z,
+        "pressure_angle": math.degrees(sizes.alpha_n),
+        "profile_shift": sizes.x,
+        "face_width": values["face_width"],
+        "pitch_diameter": sizes.d,
+        "tip_diameter": sizes.da,
+        "root_diameter": sizes.df,
+        "base_diameter": sizes.db,
+        "tooth_thickness": sizes.s,
+    }
+    if beta:
+        manifest.update(helix_angle=math.degrees(beta), transverse_module=sizes.mt,
+                        transverse_pressure_angle=math.degrees(sizes.alpha_t))
+    model = PartModel(name=name, kind=kind, values=values, body=body, sizes=manifest,
+                      findings=findings, outline=poly, chord_tol=values["chord_tolerance"])
+    model.tooth = {"role": "gear", "sizes": sizes, "flank": flank, "profile": values["profile"],
+                   "face_width": values["face_width"]}
+    chord = values["chord_tolerance"]
+
+    def mesh_check(polys, z):
+        """Measure a slice of the exported mesh (outer outline) against the formulas."""
+        outer = max(polys, key=lambda p: abs(_area(p)))
+        got = measured_sizes(outer, sizes)
+        return compare_sizes(name, got, sizes, size_tol=chord + 2e-3,
+                             thickness_tol=2 * chord + 2e-3, where=f"mesh slice z={z:g}",
+                             check_thickness=flank.r_junction <= sizes.rp <= sizes.ra)
+
+    model.mesh_check = mesh_check
+    return model
+
+
+def _area(p):
+    x, y = p[:, 0], p[:, 1]
+    return 0.5 * float(np.dot(x, np.roll(y, -1)) - np.dot(y, np.roll(x, -1)))

@@ -1,0 +1,85 @@
+"""Part kind ``rack``: straight-tooth rack with the ISO 53 basic rack form.
+
+Rack along +X, tips toward +Y, pitch line on y = 0, back on y = −height, bottom face on
+z = 0, face width along +Z.
+"""
+
+from __future__ import annotations
+
+import math
+
+from gen.errors import GeometryError
+from gen.geometry.basic_rack import basic_rack
+from gen.geometry.body import Body, Prism
+from gen.geometry.rack_outline import rack_loop, rack_sizes
+from gen.geometry.section import Section
+from gen.params.schema import REQUIRED, Key
+from gen.parts import common_keys as K
+from gen.parts.base import PartModel
+from gen.validate.findings import ERROR, INFO, Finding
+from gen.geometry.modules import module_series
+from gen.validate.rack_checks import rack_compare, rack_measure
+
+KIND = "rack"
+RACK_KEYS = (K.MODULE, K.PRESSURE_ANGLE, K.PROFILE, K.FACE_WIDTH, K.BACKLASH_ALLOWANCE,
+             K.FORCE, K.CHORD,
+             Key("length", "float", None, lo=0, hi=5000, lo_open=True, unit="mm"),
+             Key("teeth", "int", None, lo=1, hi=5000),
+             Key("height", "float", REQUIRED, lo=0, hi=1000, lo_open=True, unit="mm",
+                 doc="pitch line to the back face"))
+KEYS = RACK_KEYS + (
+    Key("helix_angle", "angle", 0.0, lo=0, hi=0, doc="straight racks have none; use helical_rack"),
+    Key("module_basis", "enum", "normal", choices=("normal",)),
+)
+
+
+def make_rack(name, values, where, *, kind, beta=0.0, shear_sign=0.0, chevron=False):
+    if (values["length"] is None) == (values["teeth"] is None):
+        raise where.error("length", "give either length (mm) or teeth, not both or neither")
+    rack = basic_rack(values["profile"]).with_alpha(values["pressure_angle"])
+    m = values["module"]
+    try:
+        sizes = rack_sizes(m, rack, height=values["height"], length=values["length"],
+                           teeth=values["teeth"], beta=beta, thinning=values["backlash_allowance"])
+        loop = rack_loop(sizes, rack)
+    except GeometryError as exc:
+        key = "height" if "height" in str(exc) else ("length" if values["length"] else "teeth")
+        raise where.error(key, str(exc), values[key]) from None
+    poly = loop.polygon(values["chord_tolerance"])
+    findings = rack_compare(name, rack_measure(poly, sizes), sizes, tol=1e-6)
+    if values["face_width"] < 0.5 * m:
+        findings.append(Finding(ERROR, "face-vs-module", f"face width {values['face_width']:g} mm "
+                                f"is under half the module", name, "common practice"))
+    if module_series(m) is None:
+        findings.append(Finding(INFO, "module-series", f"module {m:g} mm is not in the ISO 54 / "
+                                "DIN 780 preferred series", name, "ISO 54 / DIN 780"))
+    shear = shear_sign * math.tan(beta)
+    body = Body((Prism(Section(loop), 0.0, values["face_width"], shear=shear, chevron=chevron),))
+    manifest = {"module": m, "pressure_angle": math.degrees(rack.alpha), "pitch": sizes.pitch,
+                "height": sizes.height, "length": sizes.length, "teeth": sizes.teeth,
+                "face_width": values["face_width"], "tooth_thickness": sizes.s,
+                "addendum": sizes.addendum, "dedendum": sizes.dedendum}
+    if beta:
+        manifest["helix_angle"] = math.degrees(beta)
+    model = PartModel(name=name, kind=kind, values=values, body=body, sizes=manifest,
+                      findings=findings, outline=poly, chord_tol=values["chord_tolerance"])
+    model.tooth = {"role": "rack", "rack_sizes": sizes, "profile": values["profile"],
+                   "face_width": values["face_width"], "alpha_n": rack.alpha, "beta": beta}
+    chord = values["chord_tolerance"]
+
+    def mesh_check(polys, z):
+        outer = max(polys, key=len)
+        got = rack_measure(outer, sizes)
+        shift = shear * z if not chevron else None
+        if shift is not None and shift:
+            got = rack_measure(outer - [shift, 0.0], sizes)
+        return rack_compare(name, got, sizes, tol=2 * chord + 2e-3, where=f"mesh slice z={z:g}")
+
+    model.mesh_check = mesh_check if not chevron and not shear else None
+    return model
+
+
+def make(name, values, where):
+    return make_rack(name, values, where, kind=KIND)
+
+EXAMPLE = {"module": 1.5, "length": 120, "face_width": 8, "height": 8}

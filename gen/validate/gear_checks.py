@@ -1,0 +1,133 @@
+"""Checks of a generated cylindrical gear against ISO 21771, measured on its outline."""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+
+from gen.geometry.cylindrical import GearSizes, undercut_limit_shift, undercut_limit_teeth
+from gen.geometry.generate import Cutter, Flank, psi_exact
+from gen.geometry.involute import half_thickness_angle
+from gen.geometry.modules import module_series
+from gen.tolerances import TOL
+from gen.validate import measure
+from gen.validate.findings import ERROR, INFO, WARNING, Finding
+
+ISO21771 = "ISO 21771 sizes"
+MIN_TEETH, MAX_TEETH = 6, 400
+
+
+def undercut_depth(sizes: GearSizes, cutter: Cutter) -> float:
+    """How far (mm, along the base circle) the generated flank lies inside the involute at the
+    base circle; > 0 means the rack cutter has cut into the involute (undercut)."""
+    rb = sizes.rb
+    if rb <= sizes.rf + 1e-9:
+        return 0.0
+    gen = float(psi_exact(cutter, sizes.rp, sizes.z, [rb])[0])
+    inv = float(half_thickness_angle(rb, rp=sizes.rp, rb=rb, s=sizes.s))
+    return (inv - gen) * rb
+
+
+def measured_sizes(poly: np.ndarray, sizes: GearSizes) -> dict:
+    r = measure.radii(poly)
+    thick = measure.arc_thickness(poly, sizes.rp)
+    pitch = measure.angular_pitch(poly, sizes.rp)
+    return {
+        "tip_radius": float(r.max()),
+        "root_radius": float(r.min()),
+        "teeth": measure.tooth_count(poly),
+        "thickness": float(thick.mean()) if len(thick) else float("nan"),
+        "thickness_spread": float(np.ptp(thick)) if len(thick) else float("nan"),
+        "pitch_error": float(np.max(np.abs(pitch - 2 * math.pi / sizes.z))) if len(pitch) else float("nan"),
+    }
+
+
+def compare_sizes(subject: str, got: dict, sizes: GearSizes, *, size_tol: float,
+                  thickness_tol: float, where: str = "profile", check_thickness: bool = True):
+    """Errors for every measured size that disagrees with the formula."""
+    out = []
+
+    def bad(what, measured, expected, tol, formula):
+        out.append(Finding(ERROR, "size-mismatch",
+                           f"{where}: measured {what} {measured:.4f} mm, formula {expected:.4f} mm "
+                           f"(tolerance {tol:g} mm)", subject, f"{ISO21771}: {formula}"))
+
+    if abs(got["tip_radius"] - sizes.ra) > size_tol:
+        bad("tip radius", got["tip_radius"], sizes.ra, size_tol, "da = d + 2 m_n (h_aP* + x − k)")
+    if abs(got["root_radius"] - sizes.rf) > size_tol:
+        bad("root radius", got["root_radius"], sizes.rf, size_tol, "df = d − 2 m_n (h_fP* − x)")
+    if got["teeth"] != sizes.z:
+        out.append(Finding(ERROR, "tooth-count", f"{where}: counted {got['teeth']} teeth, "
+                           f"expected {sizes.z}", subject, "tooth count"))
+    if check_thickness and not math.isnan(got["thickness"]):
+        if abs(got["thickness"] - sizes.s) > thickness_tol:
+            bad("tooth thickness on d", got["thickness"], sizes.s, thickness_tol,
+                "s = m_t (π/2 + 2 x tan α_n) − thinning")
+    if not math.isnan(got["pitch_error"]) and got["pitch_error"] > 1e-4:
+        out.append(Finding(ERROR, "pitch", f"{where}: angular pitch varies by "
+                           f"{math.degrees(got['pitch_error']):.4f}°", subject, "p = 2π/z"))
+    return out
+
+
+def gear_findings(subject: str, sizes: GearSizes, cutter: Cutter, flank: Flank,
+                  poly: np.ndarray, *, force: bool = False, addendum: float = 1.0,
+                  face_width: float | None = None, bore_radius: float | None = None,
+                  rack_root: float | None = None):
+    """All profile findings for one gear: measured sizes, undercut, tip, teeth, module, bore."""
+    out = []
+    m, z, x = sizes.mn, sizes.z, sizes.x
+    if not (MIN_TEETH <= z <= MAX_TEETH):
+        sev = WARNING if force else ERROR
+        out.append(Finding(sev, "teeth-range", f"{z} teeth is outside {MIN_TEETH}…{MAX_TEETH}"
+                           + ("" if force else "; set force: true to build anyway"),
+                           subject, "common practice"))
+    # pointed or thin tip (measured on the generated flank)
+    s_tip = 2.0 * flank.r_tip * float(flank.psi[-1])
+    if s_tip <= 0:
+        out.append(Finding(ERROR, "pointed-tip", "teeth are pointed: flanks meet below the tip "
+                           "circle; reduce the profile shift or shorten the tip", subject,
+                           "tip thickness s_a ≤ 0"))
+        return out
+    if s_tip < 0.2 * m:
+        out.append(Finding(WARNING, "thin-tip", f"tip land {s_tip:.3f} mm is under 0.2 m = "
+                           f"{0.2 * m:.3f} mm", subject, "common practice: s_a ≥ 0.2 m"))
+    # measured vs formula
+    got = measured_sizes(poly, sizes)
+    check_s = flank.r_junction <= sizes.rp <= sizes.ra
+    out += compare_sizes(subject, got, sizes, size_tol=TOL.size,
+                         thickness_tol=TOL.thickness_rel * m, check_thickness=check_s)
+    # undercut: measured on the generated flank, formula named in the message
+    depth = undercut_depth(sizes, cutter)
+    # transverse section of a helical gear: z_min = 2 (h* − x) cos β / sin²α_t
+    cb = math.cos(sizes.beta)
+    z_lim = undercut_limit_teeth(sizes.alpha_t, x, addendum) * cb
+    x_lim = undercut_limit_shift(z / cb, sizes.alpha_t, addendum)
+    if depth > TOL.flank:
+        out.append(Finding(WARNING, "undercut", f"undercut: the generating rack cuts "
+                           f"{depth * 1000:.1f} µm into the involute at the base circle "
+                           f"(z = {z} < 2(1 − x)/sin²α = {z_lim:.1f}); a profile shift "
+                           f"x ≥ {x_lim:.3f} avoids it", subject,
+                           "rack generation, z_min = 2(h* − x)/sin²α"))
+    if cutter.tip_radius < 0.999999 * (cutter.tip_radius if rack_root is None else rack_root):
+        out.append(Finding(INFO, "full-round-root", f"root radius reduced to a full round, "
+                           f"{cutter.tip_radius:.3f} mm (the basic rack's does not fit at this "
+                           "pressure angle)", subject, "ISO 53 root radius"))
+    series = module_series(m)
+    if series is None:
+        out.append(Finding(INFO, "module-series", f"module {m:g} mm is not in the ISO 54 / "
+                           "DIN 780 preferred series", subject, "ISO 54 / DIN 780"))
+    if face_width is not None and face_width < 0.5 * m:
+        out.append(Finding(ERROR, "face-vs-module", f"face width {face_width:g} mm is under half "
+                           f"the module ({m:g} mm): the teeth would be slivers", subject,
+                           "common practice"))
+    if bore_radius is not None:
+        if bore_radius >= sizes.rf:
+            out.append(Finding(ERROR, "bore-too-big", f"bore reaches radius {bore_radius:.3f} mm, "
+                               f"at or beyond the root circle radius {sizes.rf:.3f} mm", subject,
+                               "geometry"))
+        elif sizes.rf - bore_radius < m:
+            out.append(Finding(WARNING, "thin-rim", f"rim under the teeth is "
+                               f"{sizes.rf - bore_radius:.2f} mm, less than one module", subject,
+                               "common practice: rim ≥ 1 m"))
+    return out

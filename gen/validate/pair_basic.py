@@ -1,0 +1,33 @@
+"""First-level checks of a declared mesh: both parts exist, mesh-able kinds, same tooth system."""
+
+from __future__ import annotations
+
+import math
+
+from gen.validate.findings import ERROR, Finding
+
+
+def tooth_system(tooth: dict) -> tuple[float, float, float]:
+    """(normal module, normal pressure angle, helix angle) of a gear or rack tooth dict."""
+    if tooth["role"] == "rack":
+        s = tooth["rack_sizes"]
+        return s.mn, s.alpha_n, s.beta
+    s = tooth["sizes"]
+    return s.mn, s.alpha_n, s.beta
+
+
+def basic_pair_findings(label: str, a: str, ta: dict, b: str, tb: dict) -> list:
+    out = []
+    ma, aa, ba = tooth_system(ta)
+    mb, ab, bb = tooth_system(tb)
+    if abs(ma - mb) > 1e-9:
+        out.append(Finding(ERROR, "module-mismatch", f"'{a}' has module {ma:g} mm but '{b}' has "
+                           f"{mb:g} mm: they cannot mesh", label, "equal normal module"))
+    if abs(aa - ab) > 1e-9:
+        out.append(Finding(ERROR, "pressure-angle-mismatch",
+                           f"'{a}' has pressure angle {math.degrees(aa):g}° but '{b}' has "
+                           f"{math.degrees(ab):g}°: they cannot mesh", label,
+                           "equal normal pressure angle"))
+    if ta["role"] == "rack" and tb["role"] == "rack":
+        out.append(Finding(ERROR, "rack-rack", "two racks cannot mesh with each other", label, ""))
+    return out
