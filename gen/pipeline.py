@@ -11,7 +11,7 @@ import hashlib
 import json
 import os
 import time
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 
 from gen import __version__
 from gen.errors import ParamError, PitchlineError
@@ -74,8 +74,20 @@ def check_meshes(result: CheckResult) -> None:
             continue
         label = f"{names[0]}+{names[1]}"
         found = basic_pair_findings(label, names[0], a.tooth, names[1], b.tooth)
+        rel = os.path.relpath(entry.file)
+        found = [replace(f, where=f"{rel}:{entry.line('parts')}", key=f.key or "parts")
+                 for f in found]
         result.findings += found
         result.pairs.append({"name": label, "parts": names, "findings": found})
+
+
+def _locate(f: Finding, raw) -> Finding:
+    """Point a part finding at the file and line of the key it is about."""
+    if f.where or f.subject != raw.name:
+        return f
+    line = raw.line(f.key or None)
+    rel = os.path.relpath(raw.file) if raw.file else "<input>"
+    return replace(f, where=f"{rel}:{line}" if line else rel)
 
 
 def check(paths) -> CheckResult:
@@ -88,6 +100,7 @@ def check(paths) -> CheckResult:
         except ParamError as exc:
             result.findings.append(_param_finding(exc))
             continue
+        model.findings = [_locate(f, raw) for f in model.findings]
         result.models[name] = model
         result.findings += model.findings
     check_meshes(result)

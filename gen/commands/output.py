@@ -16,14 +16,21 @@ def count(findings) -> dict:
     return out
 
 
+def finding_line(f) -> str:
+    """One line per finding: mark, who and where, then the message."""
+    if f.code == "parameter":          # a ParamError already names file, part and key
+        return f"  {MARK[f.severity]}  {f.message}"
+    loc = ", ".join(x for x in (f.where, f"key '{f.key}'" if f.key else "") if x)
+    noun = "mesh" if "+" in f.subject else "part"   # part names never hold '+'
+    who = f"{noun} '{f.subject}'" if f.where else (f.subject or "-")
+    return f"  {MARK[f.severity]}  {who}{f' ({loc})' if loc else ''}: {f.message}"
+
+
 def print_findings(findings, *, stream=None, show_info: bool = True) -> None:
     stream = stream or sys.stdout
-    rows = [f for f in findings if show_info or f.severity != INFO]
-    if not rows:
-        return
-    width = min(28, max(len(f.subject or "-") for f in rows))
-    for f in rows:
-        stream.write(f"  {MARK[f.severity]}  {(f.subject or '-'):<{width}}  {f.message}\n")
+    for f in findings:
+        if show_info or f.severity != INFO:
+            stream.write(finding_line(f) + "\n")
 
 
 def summary_line(n_parts: int, n_meshes: int, findings) -> str:

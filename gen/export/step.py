@@ -9,6 +9,8 @@ from gen.errors import ExportError
 from gen.export.atomic import temp_path, write_atomic
 
 _STAMP = re.compile(rb"FILE_NAME\('([^']*)','[^']*'")
+# the writer numbers products per session ('name 2', 'name 4' …): drop the counter
+_PRODUCT = re.compile(rb"PRODUCT\('([^']*?) \d+','([^']*?) \d+'")
 
 
 def step_bytes(shape, name: str, workdir: str) -> bytes:
@@ -18,9 +20,9 @@ def step_bytes(shape, name: str, workdir: str) -> bytes:
     from OCP.Interface import Interface_Static
     from OCP.STEPControl import STEPControl_AsIs, STEPControl_Writer
 
+    writer = STEPControl_Writer()  # first: it registers the static parameters set below
     Interface_Static.SetCVal_s("write.step.schema", "AP214IS")
     Interface_Static.SetCVal_s("write.step.product.name", name)
-    writer = STEPControl_Writer()
     shapes = shape if isinstance(shape, (list, tuple)) else [shape]
     for s in shapes:
         if writer.Transfer(s.wrapped, STEPControl_AsIs) != IFSelect_RetDone:
@@ -34,6 +36,7 @@ def step_bytes(shape, name: str, workdir: str) -> bytes:
     finally:
         if os.path.exists(tmp):
             os.unlink(tmp)
+    data = _PRODUCT.sub(rb"PRODUCT('\1','\2'", data)
     return _STAMP.sub(lambda m: b"FILE_NAME('" + name.encode() + b"','1970-01-01T00:00:00'",
                       data, count=1)
 

@@ -123,5 +123,6 @@ def check_mapping(raw: dict, keys, where: Where, prefix: str = "") -> dict:
         if k.name not in out:
             if k.required:
                 raise where.error(prefix + k.name, "is required", allowed=k.range_text())
-            out[k.name] = k.default
+            d = k.default
+            out[k.name] = math.radians(d) if (k.kind == "angle" and d is not None) else d
     return out

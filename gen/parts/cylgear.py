@@ -75,10 +75,10 @@ def make_gear(name: str, values: dict, where, *, kind: str, beta: float = 0.0,
     if hub:
         if hub["diameter"] / 2.0 >= sizes.rf:
             findings.append(Finding(ERROR, "hub-too-big", f"hub diameter {hub['diameter']:g} mm "
-                                    f"reaches the root circle ({sizes.df:.3f} mm)", name, "geometry"))
+                                    f"reaches the root circle ({sizes.df:.3f} mm)", name, "geometry", key="hub"))
         if bore_r is not None and hub["diameter"] / 2.0 <= bore_r + 0.5:
             findings.append(Finding(ERROR, "hub-too-thin", f"hub diameter {hub['diameter']:g} mm "
-                                    "leaves no wall around the bore", name, "geometry"))
+                                    "leaves no wall around the bore", name, "geometry", key="hub"))
         solids.append(Prism(Section(circle(hub["diameter"] / 2.0), holes), b, b + hub["length"]))
     body = Body(tuple(solids))
     return _model(name, kind, values, body, sizes, findings, poly, flank, beta)

@@ -49,10 +49,10 @@ def make_rack(name, values, where, *, kind, beta=0.0, shear_sign=0.0, chevron=Fa
     findings = rack_compare(name, rack_measure(poly, sizes), sizes, tol=1e-6)
     if values["face_width"] < 0.5 * m:
         findings.append(Finding(ERROR, "face-vs-module", f"face width {values['face_width']:g} mm "
-                                f"is under half the module", name, "common practice"))
+                                f"is under half the module", name, "common practice", key="face_width"))
     if module_series(m) is None:
         findings.append(Finding(INFO, "module-series", f"module {m:g} mm is not in the ISO 54 / "
-                                "DIN 780 preferred series", name, "ISO 54 / DIN 780"))
+                                "DIN 780 preferred series", name, "ISO 54 / DIN 780", key="module"))
     shear = shear_sign * math.tan(beta)
     body = Body((Prism(Section(loop), 0.0, values["face_width"], shear=shear, chevron=chevron),))
     manifest = {"module": m, "pressure_angle": math.degrees(rack.alpha), "pitch": sizes.pitch,

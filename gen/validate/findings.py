@@ -15,6 +15,8 @@ class Finding:
     message: str          # one line a person reads
     subject: str = ""     # part, mesh or drive name
     source: str = ""      # formula / standard behind it
+    key: str = ""         # parameter the finding is about, when there is one
+    where: str = ""       # file:line of that parameter (filled in by the pipeline)
 
     def as_dict(self) -> dict:
         return asdict(self)

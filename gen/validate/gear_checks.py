@@ -81,17 +81,17 @@ def gear_findings(subject: str, sizes: GearSizes, cutter: Cutter, flank: Flank,
         sev = WARNING if force else ERROR
         out.append(Finding(sev, "teeth-range", f"{z} teeth is outside {MIN_TEETH}…{MAX_TEETH}"
                            + ("" if force else "; set force: true to build anyway"),
-                           subject, "common practice"))
+                           subject, "common practice", key="teeth"))
     # pointed or thin tip (measured on the generated flank)
     s_tip = 2.0 * flank.r_tip * float(flank.psi[-1])
     if s_tip <= 0:
         out.append(Finding(ERROR, "pointed-tip", "teeth are pointed: flanks meet below the tip "
                            "circle; reduce the profile shift or shorten the tip", subject,
-                           "tip thickness s_a ≤ 0"))
+                           "tip thickness s_a ≤ 0", key="profile_shift"))
         return out
     if s_tip < 0.2 * m:
         out.append(Finding(WARNING, "thin-tip", f"tip land {s_tip:.3f} mm is under 0.2 m = "
-                           f"{0.2 * m:.3f} mm", subject, "common practice: s_a ≥ 0.2 m"))
+                           f"{0.2 * m:.3f} mm", subject, "common practice: s_a ≥ 0.2 m", key="profile_shift"))
     # measured vs formula
     got = measured_sizes(poly, sizes)
     check_s = flank.r_junction <= sizes.rp <= sizes.ra
@@ -108,26 +108,26 @@ def gear_findings(subject: str, sizes: GearSizes, cutter: Cutter, flank: Flank,
                            f"{depth * 1000:.1f} µm into the involute at the base circle "
                            f"(z = {z} < 2(1 − x)/sin²α = {z_lim:.1f}); a profile shift "
                            f"x ≥ {x_lim:.3f} avoids it", subject,
-                           "rack generation, z_min = 2(h* − x)/sin²α"))
+                           "rack generation, z_min = 2(h* − x)/sin²α", key="teeth"))
     if cutter.tip_radius < 0.999999 * (cutter.tip_radius if rack_root is None else rack_root):
         out.append(Finding(INFO, "full-round-root", f"root radius reduced to a full round, "
                            f"{cutter.tip_radius:.3f} mm (the basic rack's does not fit at this "
-                           "pressure angle)", subject, "ISO 53 root radius"))
+                           "pressure angle)", subject, "ISO 53 root radius", key="profile"))
     series = module_series(m)
     if series is None:
         out.append(Finding(INFO, "module-series", f"module {m:g} mm is not in the ISO 54 / "
-                           "DIN 780 preferred series", subject, "ISO 54 / DIN 780"))
+                           "DIN 780 preferred series", subject, "ISO 54 / DIN 780", key="module"))
     if face_width is not None and face_width < 0.5 * m:
         out.append(Finding(ERROR, "face-vs-module", f"face width {face_width:g} mm is under half "
                            f"the module ({m:g} mm): the teeth would be slivers", subject,
-                           "common practice"))
+                           "common practice", key="face_width"))
     if bore_radius is not None:
         if bore_radius >= sizes.rf:
             out.append(Finding(ERROR, "bore-too-big", f"bore reaches radius {bore_radius:.3f} mm, "
                                f"at or beyond the root circle radius {sizes.rf:.3f} mm", subject,
-                               "geometry"))
+                               "geometry", key="bore"))
         elif sizes.rf - bore_radius < m:
             out.append(Finding(WARNING, "thin-rim", f"rim under the teeth is "
                                f"{sizes.rf - bore_radius:.2f} mm, less than one module", subject,
-                               "common practice: rim ≥ 1 m"))
+                               "common practice: rim ≥ 1 m", key="bore"))
     return out
