@@ -28,7 +28,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from gen.errors import GeometryError
-from gen.geometry.section import Arc, Line, Loop, rotate
+from gen.geometry.section import Arc, Line, Loop
 
 #: shortest curve kept in an outline (mm of length or rad of arc); shorter pieces are dropped
 _MIN_PIECE = 1e-12
@@ -268,7 +268,8 @@ def _groove_half(prof: BeltProfile, sizes: PulleySizes) -> list:
     start = curves[-1].end
     run = float((tip_line - start) @ d)
     if run < -1e-9:
-        raise GeometryError(f"{where}: root and tip fillets overlap along the flank")
+        hint = f" (fit allowance {f:g} mm is too large for this groove)" if f else ""
+        raise GeometryError(f"{where}: root and tip fillets overlap along the flank{hint}")
     if run > _MIN_PIECE:
         curves.append(Line(tuple(start), tuple(tip_line)))
     if rte > _MIN_PIECE:
@@ -284,11 +285,15 @@ def _mirror_reversed(c):
 
 
 def _rotated(c, angle: float):
+    """``c`` turned counter-clockwise by ``angle`` about the origin."""
+    co, si = math.cos(angle), math.sin(angle)
+
+    def turn(pt):
+        return (co * pt[0] - si * pt[1], si * pt[0] + co * pt[1])
+
     if isinstance(c, Line):
-        pts = rotate(np.array([c.p0, c.p1], dtype=float), angle)
-        return Line(tuple(pts[0]), tuple(pts[1]))
-    cen = rotate(np.array([c.center], dtype=float), angle)[0]
-    return Arc((float(cen[0]), float(cen[1])), c.radius, c.a0 + angle, c.a1 + angle)
+        return Line(turn(c.p0), turn(c.p1))
+    return Arc(turn(c.center), c.radius, c.a0 + angle, c.a1 + angle)
 
 
 def pulley_loop(profile, teeth: int, fit_allowance: float = 0.0) -> Loop:
