@@ -49,6 +49,10 @@ def main(argv=None) -> int:
     except PitchlineError as exc:
         print(f"pitchline: {exc}", file=sys.stderr)
         return 1
+    except BrokenPipeError:  # output piped into a pager or head that closed early
+        import os
+        os.dup2(os.open(os.devnull, os.O_WRONLY), sys.stdout.fileno())
+        return 0
     except KeyboardInterrupt:
         print("pitchline: interrupted", file=sys.stderr)
         return 130

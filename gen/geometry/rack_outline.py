@@ -15,7 +15,7 @@ import numpy as np
 from gen.errors import GeometryError
 from gen.geometry.basic_rack import BasicRack
 from gen.geometry.generate import Cutter
-from gen.geometry.section import Line, Loop, Spline
+from gen.geometry.section import Arc, Line, Loop, Spline
 
 
 @dataclass(frozen=True)
@@ -54,42 +54,80 @@ def rack_sizes(mn: float, rack: BasicRack, *, height: float, length: float | Non
                      teeth=n, offset=offset)
 
 
-def _space_half(sizes: RackSizes, rack: BasicRack) -> np.ndarray:
-    """Right half of one tooth space (centre → tip corner) as points, centred at x = 0."""
+def _space_cutter(sizes: RackSizes, rack: BasicRack) -> Cutter:
     cb = math.cos(sizes.beta)
     space_n = (sizes.pitch - sizes.s) * cb  # space width on the pitch line, normal plane
-    cut = Cutter(alpha_n=rack.alpha, half_width_n=space_n / 2.0, tip_depth=sizes.dedendum,
-                 tip_radius=rack.root_radius * sizes.mn, shift=0.0, stretch=1.0 / cb,
-                 top=sizes.addendum)
-    s = np.concatenate([[0.0, 1.0], np.linspace(1.0, 2.0, 17)[1:], [3.0]])
-    x, y = cut.points(s)
-    return np.column_stack([x, y])
+    return Cutter(alpha_n=rack.alpha, half_width_n=space_n / 2.0, tip_depth=sizes.dedendum,
+                  tip_radius=rack.root_radius * sizes.mn, shift=0.0, stretch=1.0 / cb,
+                  top=sizes.addendum)
+
+
+def _reverse(c):
+    if isinstance(c, Line):
+        return Line(c.p1, c.p0)
+    if isinstance(c, Arc):
+        return Arc(c.center, c.radius, c.a1, c.a0)
+    return Spline(c.points[::-1].copy())
+
+
+def _mirror(c):
+    """Mirror a curve about x = 0 (and reverse it, so chains stay in order)."""
+    if isinstance(c, Line):
+        return Line((-c.p1[0], c.p1[1]), (-c.p0[0], c.p0[1]))
+    if isinstance(c, Arc):
+        return Arc((-c.center[0], c.center[1]), c.radius, math.pi - c.a1, math.pi - c.a0)
+    return Spline((c.points * np.array([-1.0, 1.0]))[::-1].copy())
+
+
+def _shift(c, dx):
+    if isinstance(c, Line):
+        return Line((c.p0[0] + dx, c.p0[1]), (c.p1[0] + dx, c.p1[1]))
+    if isinstance(c, Arc):
+        return Arc((c.center[0] + dx, c.center[1]), c.radius, c.a0, c.a1)
+    return Spline(c.points + np.array([dx, 0.0]))
+
+
+def _half_space(cut: Cutter):
+    """Right half of a tooth space centred on x = 0: root flat, fillet, flank (centre → tip)."""
+    x, y = cut.points(np.array([0.0, 1.0, 2.0, 3.0]))
+    curves = []
+    if x[1] > 1e-12:
+        curves.append(Line((0.0, y[0]), (x[1], y[1])))
+    if cut.stretch == 1.0:
+        xc, yc = cut.fillet_center_n
+        curves.append(Arc((xc, yc), cut.tip_radius, -math.pi / 2, -cut.alpha_n))
+    else:  # transverse section of a helical rack: the round becomes an ellipse
+        xs, ys = cut.points(np.linspace(1.0, 2.0, 17))
+        curves.append(Spline(np.column_stack([xs, ys])))
+    curves.append(Line((x[2], y[2]), (x[3], y[3])))
+    return curves
 
 
 def rack_loop(sizes: RackSizes, rack: BasicRack) -> Loop:
-    half = _space_half(sizes, rack)
-    if half[-1, 0] * 2 >= sizes.pitch - 1e-9:
+    cut = _space_cutter(sizes, rack)
+    right = _half_space(cut)
+    tip_x = right[-1].p1[0]
+    if tip_x * 2 >= sizes.pitch - 1e-9:
         raise GeometryError("rack teeth are pointed: no tip land left")
-    left = half[::-1] * np.array([-1.0, 1.0])  # tip corner → centre, mirrored
-    space = np.concatenate([left, half[1:]])    # left tip corner → right tip corner
-    h, L = sizes.height, sizes.length
-    y_root = space[len(half) - 1, 1]
-    top = []  # left to right along the toothed side
+    left = [_mirror(c) for c in reversed(right)]
+    h, L, p = sizes.height, sizes.length, sizes.pitch
+    y_root = right[0].p0[1] if isinstance(right[0], Line) else -sizes.dedendum
+    top = []  # toothed side, left to right
+    if sizes.offset > 1e-12:
+        top.append(Line((0.0, y_root), (sizes.offset, y_root)))
     for k in range(sizes.teeth + 1):
-        pts = space + np.array([sizes.offset + k * sizes.pitch, 0.0])
-        pts = pts[(pts[:, 0] >= -1e-12) & (pts[:, 0] <= L + 1e-12)]
-        top.append(pts)
-    top = np.concatenate(top)
-    if top[0, 0] > 1e-12:
-        top = np.vstack([[0.0, y_root], top])
-    if top[-1, 0] < L - 1e-12:
-        top = np.vstack([top, [L, y_root]])
-    top[0, 0], top[-1, 0] = 0.0, L
-    # counter-clockwise: bottom edge, right end, toothed side right → left, left end
-    pts = np.vstack([[[0.0, -h], [L, -h]], top[::-1]])
-    curves = []
-    for i in range(len(pts)):
-        a, b = pts[i], pts[(i + 1) % len(pts)]
-        if np.hypot(*(b - a)) > 1e-12:
-            curves.append(Line(tuple(a), tuple(b)))
-    return Loop(tuple(curves))
+        cx = sizes.offset + k * p
+        if k > 0:
+            top += [_shift(c, cx) for c in left]
+        if k < sizes.teeth:
+            top += [_shift(c, cx) for c in right]
+            top.append(Line((cx + tip_x, sizes.addendum), (cx + p - tip_x, sizes.addendum)))
+    if L - (sizes.offset + sizes.teeth * p) > 1e-12:
+        top.append(Line((sizes.offset + sizes.teeth * p, y_root), (L, y_root)))
+    # with ``teeth`` the ends cut through root flats at x = 0 and x = L; drop zero-length bits
+    start, end = top[0].start, top[-1].end
+    curves = [Line((0.0, -h), (L, -h)), Line((L, -h), tuple(end))]
+    curves += [_reverse(c) for c in reversed(top)]
+    curves.append(Line(tuple(start), (0.0, -h)))
+    return Loop(tuple(c for c in curves if not (isinstance(c, Line) and
+                                                 math.dist(c.p0, c.p1) < 1e-12)))
