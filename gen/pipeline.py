@@ -139,7 +139,9 @@ def export_part(model, out: str, formats) -> PartOutcome:
     try:
         mesh = body_mesh(model.body, model.chord_tol)
         if model.mesh_check is not None:
-            z_mid = 0.5 * model.sizes.get("face_width", 0.0)
+            z_mid = model.mesh_check_z
+            if z_mid is None:
+                z_mid = 0.5 * model.sizes.get("face_width", 0.0)
             outcome.findings += model.mesh_check(slice_polygons(mesh, z_mid), z_mid)
         if has_errors(outcome.findings):
             outcome.ok = False

@@ -32,6 +32,19 @@ class Prism:
 
 
 @dataclass(frozen=True, eq=False)
+class RadialHole:
+    """A cylindrical hole along a radius (set screws): axis in the XY plane at height z,
+    at polar angle ``angle`` (rad), from radius r0 out to r1."""
+
+    diameter: float
+    z: float
+    angle: float
+    r0: float
+    r1: float
+
+
+@dataclass(frozen=True, eq=False)
 class Body:
     solids: tuple
     cuts: tuple = field(default_factory=tuple)
+    radial_holes: tuple = field(default_factory=tuple)

@@ -36,6 +36,17 @@ def prism_manifold(prism, tol: float = 0.01):
     return man.translate((0.0, 0.0, prism.z0))
 
 
+def radial_hole_manifold(hole, tol: float = 0.01):
+    """A cylinder along +X from r0 to r1, turned to the hole's angle and raised to its z."""
+    import manifold3d as m3d
+
+    r = hole.diameter / 2.0
+    n = max(12, int(math.ceil(math.pi / math.acos(max(-1.0, 1.0 - tol / r)))))
+    cyl = m3d.Manifold.cylinder(hole.r1 - hole.r0, r, r, n)   # along +Z from 0
+    cyl = cyl.rotate((0.0, 90.0, 0.0)).translate((hole.r0, 0.0, 0.0))
+    return cyl.rotate((0.0, 0.0, math.degrees(hole.angle))).translate((0.0, 0.0, hole.z))
+
+
 def body_mesh(body, tol: float = 0.01):
     """Watertight trimesh of the body's union minus its cuts."""
     import trimesh
@@ -46,6 +57,8 @@ def body_mesh(body, tol: float = 0.01):
         man = piece if man is None else man + piece
     for c in body.cuts:
         man = man - prism_manifold(c, tol)
+    for h in body.radial_holes:
+        man = man - radial_hole_manifold(h, tol)
     mesh = man.to_mesh()
     tm = trimesh.Trimesh(vertices=np.asarray(mesh.vert_properties)[:, :3],
                          faces=np.asarray(mesh.tri_verts), process=True)

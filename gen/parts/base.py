@@ -19,6 +19,7 @@ from gen.params.schema import Where, check_mapping, suggest
 KINDS = {
     "spur_gear": "spur_gear",
     "rack": "rack",
+    "timing_pulley": "timing_pulley",
 }
 
 
@@ -38,6 +39,8 @@ class PartModel:
     file: str = ""
     train: str | None = None
     chord_tol: float = 0.01
+    mesh_check_z: float | None = None   # slice height for mesh_check (default: mid face)
+    pulley: dict = field(default_factory=dict)  # belt data for drive checks
 
 
 def kind_module(kind: str, where: Where):

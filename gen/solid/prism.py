@@ -70,6 +70,14 @@ def prism_solid(prism):
     return cq.Solid.extrudeLinear(outer, holes, cq.Vector(0, 0, prism.height))
 
 
+def radial_hole_solid(hole):
+    import cadquery as cq
+
+    c, s = math.cos(hole.angle), math.sin(hole.angle)
+    return cq.Solid.makeCylinder(hole.diameter / 2.0, hole.r1 - hole.r0,
+                                 cq.Vector(hole.r0 * c, hole.r0 * s, hole.z), cq.Vector(c, s, 0))
+
+
 def body_solid(body):
     """One valid solid: union of the body's prisms minus its cuts."""
     shapes = [prism_solid(p) for p in body.solids]
@@ -78,6 +86,8 @@ def body_solid(body):
         result = result.fuse(*shapes[1:], glue=False).clean()
     for cut in body.cuts:
         result = result.cut(prism_solid(cut))
+    for h in body.radial_holes:
+        result = result.cut(radial_hole_solid(h))
     solids = result.Solids()
     if len(solids) != 1:
         raise GeometryError(f"solid has {len(solids)} separate bodies, expected one")

@@ -1,0 +1,143 @@
+"""Part kind ``timing_pulley``: synchronous-belt pulley with optional flanges, hub, set screws.
+
+Stacked along +Z from z = 0: hub (if any), lower flange, toothed band, upper flange. The
+toothed band is ``belt_width`` plus a running margin long. Groove geometry and the
+ISO 5288 sizes (dp = z·p/π, do = dp − 2a) come from :mod:`gen.geometry.pulley`.
+"""
+
+from __future__ import annotations
+
+import math
+
+from gen.errors import GeometryError
+from gen.geometry.body import Body, Prism, RadialHole
+from gen.geometry.pulley import PROFILES, lookup_profile, pulley_loop, pulley_sizes
+from gen.geometry.section import Section, circle
+from gen.params.schema import REQUIRED, Key
+from gen.parts import common_keys as K
+from gen.parts.base import PartModel
+from gen.parts.cylgear import bore_of
+from gen.validate.findings import ERROR, WARNING, Finding
+from gen.validate.pulley_checks import measure_pulley, pulley_findings
+
+KIND = "timing_pulley"
+#: tap-drill diameters for ISO metric coarse set screws (from memory; common practice)
+SET_SCREW_DRILL = {"M2": 1.6, "M2.5": 2.05, "M3": 2.5, "M4": 3.3, "M5": 4.2, "M6": 5.0}
+#: toothed band longer than the belt so it runs clear of the flanges (common practice)
+BAND_MARGIN = 1.0
+
+KEYS = (
+    Key("profile", "enum", REQUIRED, choices=tuple(sorted({p.name for p in PROFILES.values()})),
+        doc="belt tooth profile"),
+    K.TEETH,
+    Key("belt_width", "float", REQUIRED, lo=0, hi=200, lo_open=True, unit="mm"),
+    Key("flanges", "enum", "both", choices=("none", "one", "both")),
+    Key("flange_height", "float", 1.5, lo=0, hi=50, lo_open=True, unit="mm",
+        doc="flange rim above the outside diameter"),
+    Key("flange_thickness", "float", 1.0, lo=0, hi=20, lo_open=True, unit="mm"),
+    Key("fit_allowance", "float", 0.0, lo=0, hi=0.5, unit="mm",
+        doc="groove enlargement per flank for printing"),
+    K.BORE, K.HUB,
+    Key("set_screw", "map", None, sub=(
+        Key("size", "enum", "M3", choices=tuple(SET_SCREW_DRILL)),
+        Key("count", "int", 1, lo=1, hi=2),
+    ), doc="radial set screws through the hub (tap-drill holes)"),
+    K.FORCE, K.CHORD,
+)
+EXAMPLE = {"profile": "curv2", "teeth": 20, "belt_width": 6, "bore": 5,
+           "hub": "{diameter: 14, length: 6}"}
+
+
+def make(name, values, where):
+    try:
+        prof = lookup_profile(values["profile"])
+        sizes = pulley_sizes(prof, values["teeth"], values["fit_allowance"])
+        loop = pulley_loop(prof, values["teeth"], values["fit_allowance"])
+    except GeometryError as exc:
+        raise where.error("teeth", str(exc), values["teeth"]) from None
+    chord = values["chord_tolerance"]
+    findings = [Finding(f.severity, f.code, f.message, name, f.source,
+                        key="teeth" if "teeth" in f.code else "")
+                for f in pulley_findings(prof, values["teeth"], loop, values["fit_allowance"],
+                                         force=values["force"], chord=chord)]
+    bore = bore_of(values)
+    holes = ()
+    r_root = sizes.fit_root_diameter / 2.0
+    if bore is not None:
+        try:
+            holes = (bore.loop(),)
+        except GeometryError as exc:
+            raise where.error("bore", str(exc), values["bore"]) from None
+        if bore.outer_radius() >= r_root - 0.8:
+            findings.append(Finding(ERROR, "bore-too-big", f"bore reaches radius "
+                                    f"{bore.outer_radius():.2f} mm, leaving under 0.8 mm below the "
+                                    f"groove root (radius {r_root:.2f} mm)", name,
+                                    "common practice: ≥ 2 printed perimeters", key="bore"))
+    hub, screw = values.get("hub"), values.get("set_screw")
+    solids, z = [], 0.0
+    if hub:
+        if bore is not None and hub["diameter"] / 2.0 < bore.outer_radius() + 1.5:
+            findings.append(Finding(ERROR, "bore-too-big-for-hub", f"hub diameter "
+                                    f"{hub['diameter']:g} mm leaves under 1.5 mm of wall around the "
+                                    f"bore", name, "common practice", key="hub"))
+        solids.append(Prism(Section(circle(hub["diameter"] / 2.0), holes), 0.0, hub["length"]))
+        z = hub["length"]
+    flange_r = sizes.fit_outside_diameter / 2.0 + values["flange_height"]
+    t = values["flange_thickness"]
+    if values["flanges"] in ("one", "both"):
+        solids.append(Prism(Section(circle(flange_r), holes), z, z + t))
+        z += t
+    band = values["belt_width"] + BAND_MARGIN
+    solids.append(Prism(Section(loop, holes), z, z + band))
+    z_mid = z + band / 2.0
+    z += band
+    if values["flanges"] == "both":
+        solids.append(Prism(Section(circle(flange_r), holes), z, z + t))
+        z += t
+    radial = ()
+    if screw:
+        if not hub:
+            findings.append(Finding(ERROR, "set-screw-needs-hub", "set screws go through a hub: "
+                                    "add hub: {diameter, length}", name, "", key="set_screw"))
+        else:
+            d = SET_SCREW_DRILL[screw["size"]]
+            if d > 0.8 * hub["length"]:
+                findings.append(Finding(ERROR, "set-screw-too-big", f"{screw['size']} tap drill "
+                                        f"{d:g} mm does not fit a {hub['length']:g} mm hub", name,
+                                        "", key="set_screw"))
+            r0 = 0.0 if bore is None else bore.d / 2.0 - 0.2
+            angle0 = math.pi / 2 if (bore is not None and (bore.flat or bore.keyway)) else 0.0
+            radial = tuple(RadialHole(d, hub["length"] / 2.0, angle0 - i * math.pi / 2,
+                                      max(0.0, r0), hub["diameter"] / 2.0 + 0.5)
+                           for i in range(screw["count"]))
+    body = Body(tuple(solids), radial_holes=radial)
+    manifest = {"profile": prof.name, "teeth": sizes.teeth, "pitch": sizes.pitch,
+                "pitch_diameter": sizes.pitch_diameter, "outside_diameter": sizes.outside_diameter,
+                "root_diameter": sizes.root_diameter, "groove_depth": sizes.groove_depth,
+                "fit_allowance": values["fit_allowance"], "belt_width": values["belt_width"],
+                "height": z, "flange_diameter": 2 * flange_r if values["flanges"] != "none" else None}
+    if values["teeth"] < prof.min_teeth and values["force"]:
+        findings.append(Finding(WARNING, "small-pulley", "belt life is short below the minimum "
+                                "tooth count", name, prof.note, key="teeth"))
+    model = PartModel(name=name, kind=KIND, values=values, body=body, sizes=manifest,
+                      findings=findings, outline=loop.polygon(chord), chord_tol=chord)
+    model.tooth = {}
+    model.pulley = {"profile": prof.name, "teeth": sizes.teeth, "sizes": sizes}
+
+    def mesh_check(polys, _z):
+        outer = max(polys, key=len)
+        got = measure_pulley(outer)
+        out = []
+        tol = chord + 2e-3
+        if abs(got.outside_diameter - sizes.fit_outside_diameter) > 2 * tol:
+            out.append(Finding(ERROR, "size-mismatch", f"mesh slice: outside diameter "
+                               f"{got.outside_diameter:.4f} mm, formula "
+                               f"{sizes.fit_outside_diameter:.4f} mm", name, "do = z·p/π − 2a"))
+        if got.groove_count != sizes.teeth:
+            out.append(Finding(ERROR, "tooth-count", f"mesh slice: {got.groove_count} grooves, "
+                               f"expected {sizes.teeth}", name, ""))
+        return out
+
+    model.mesh_check = mesh_check
+    model.mesh_check_z = z_mid
+    return model
