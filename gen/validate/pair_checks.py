@@ -43,6 +43,8 @@ class PairLimits:
     #: swept vs formula backlash: allowed difference = abs + rel × formula (mm)
     backlash_mismatch_abs: float = 0.01
     backlash_mismatch_rel: float = 0.05
+    #: lengths within this of zero count as zero (float round-off, mm)
+    length_eps: float = 1e-6
 
 
 PAIR_LIMITS = PairLimits()
@@ -78,7 +80,7 @@ def pair_findings(pair: PairResult, sweep: SweepResult | None = None, *, subject
                       f"(up to {sweep.overlap_area:.4f} mm² at "
                       f"{math.degrees(sweep.angle_at_overlap):.2f}° of gear 1){fix}",
                       subject, SOURCE_SWEEP))
-    elif sweep is None and pair.backlash_base < 0.0:
+    elif sweep is None and pair.backlash_base < -limits.length_eps:
         out.append(_f(ERROR, "teeth-interfere",
                       f"negative backlash {pair.backlash_normal:.3f} mm: the teeth cannot turn at "
                       f"{dist_name} {pair.center_distance:.3f} mm; they clear from "
@@ -92,7 +94,7 @@ def pair_findings(pair: PairResult, sweep: SweepResult | None = None, *, subject
                       subject))
 
     tip_min = limits.min_tip_clearance_modules * pair.mn
-    if pair.tip_clearance < 0.0:
+    if pair.tip_clearance < -limits.length_eps:
         out.append(_f(ERROR, "tip-clearance-low",
                       f"a tip reaches the mating root: tip clearance {pair.tip_clearance:.3f} mm",
                       subject))
