@@ -69,7 +69,7 @@ class _Panel:
         return self.ox + self.s * (x - self.cx), self.oy - self.s * (y - self.cy)
 
 
-def _line_of_action(pair: PairResult, pose):
+def _line_of_action(pair: PairResult):
     """Drive line of action: (T1, T2 or far point, A, E) in world coordinates (mm)."""
     aw = pair.alpha_w
     rb1 = pair.base_radii[0]
@@ -100,7 +100,7 @@ def mesh_svg(poly1: np.ndarray, poly2: np.ndarray, pair: PairResult,
     theta = sweep.angle_at_min if sweep is not None else 0.0
     w1, w2 = pose.at(poly1, poly2, theta)
     ra1 = pair.tip_radii[0]
-    t1, t2, a_pt, e_pt, p_pt = _line_of_action(pair, pose)
+    t1, t2, a_pt, e_pt, p_pt = _line_of_action(pair)
     st = _STYLE
 
     if pair.kind == PAIR:

@@ -111,20 +111,16 @@ class SweepResult:
     pose: Pose = field(repr=False)
 
     def as_dict(self) -> dict:
-        return {
-            "status": self.status,
-            "min_clearance_drive": self.min_clearance_drive,
-            "min_clearance_coast": self.min_clearance_coast,
-            "overlap_area": self.overlap_area,
-            "angle_at_min_deg": math.degrees(self.angle_at_min),
-            "swept_backlash": self.swept_backlash,
-            "formula_backlash": self.formula_backlash,
-            "backlash_deviation": self.backlash_deviation,
-            "angle_at_overlap_deg": (None if self.angle_at_overlap is None
-                                     else math.degrees(self.angle_at_overlap)),
-            "clear_center_distance": self.clear_center_distance,
-            "steps": self.steps,
-        }
+        """Plain dict of the numbers; angles as ``<name>_deg`` in degrees."""
+        out = {k: getattr(self, k) for k in ("status", "min_clearance_drive",
+                                             "min_clearance_coast", "overlap_area",
+                                             "swept_backlash", "formula_backlash",
+                                             "backlash_deviation", "clear_center_distance",
+                                             "steps")}
+        for k in ("angle_at_min", "angle_at_overlap"):
+            v = getattr(self, k)
+            out[k + "_deg"] = None if v is None else math.degrees(v)
+        return out
 
 
 def mesh_pose(pair: PairResult, rack: RackSizes | None = None) -> Pose:
@@ -315,16 +311,15 @@ def _members_rack(poly1, poly2, pr: PairResult, rack: RackSizes, margin: float, 
     return m1, m2, pose
 
 
-def _pose_all(m1: _Member, m2: _Member, pose: Pose, theta, d_center: float = 0.0):
-    """Posed geometry arrays; ``d_center`` moves member 2 away from member 1 (mm)."""
+def _pose_all(pose: Pose, theta, d_center: float = 0.0):
+    """Rotations and shifts of both members; ``d_center`` moves member 2 away (mm)."""
     a1, a2, t2 = pose.angles(theta)
     t2 = t2 + (np.array([d_center, 0.0]) if pose.kind == PAIR else np.array([0.0, -d_center]))
-    t1 = np.zeros_like(t2)
-    return a1, a2, t1, t2
+    return a1, a2, np.zeros_like(t2), t2
 
 
 def _overlap(m1, m2, pose, theta, d_center=0.0):
-    a1, a2, t1, t2 = _pose_all(m1, m2, pose, theta, d_center)
+    a1, a2, t1, t2 = _pose_all(pose, theta, d_center)
     return shapely.area(shapely.intersection(_posed(m1.region, a1, t1), _posed(m2.region, a2, t2)))
 
 
@@ -332,8 +327,8 @@ def _run(m1: _Member, m2: _Member, pose: Pose, pr: PairResult, steps: int, margi
          tol: SweepTolerances, find_clearing: bool) -> SweepResult:
     pitch1 = 2.0 * math.pi / pose.z1
     theta = -pitch1 / 2.0 + pitch1 * np.arange(steps) / steps
-    a1, a2, t1, t2 = _pose_all(m1, m2, pose, theta)
-    area = shapely.area(shapely.intersection(_posed(m1.region, a1, t1), _posed(m2.region, a2, t2)))
+    area = _overlap(m1, m2, pose, theta)
+    a1, a2, t1, t2 = _pose_all(pose, theta)
     d1, d2 = _posed(m1.drive, a1, t1), _posed(m2.drive, a2, t2)
     c1, c2 = _posed(m1.coast, a1, t1), _posed(m2.coast, a2, t2)
     dd = shapely.distance(d1, d2)
@@ -400,6 +395,9 @@ def sweep_pair(poly1: np.ndarray, poly2: np.ndarray, pair: PairResult, *, steps:
     """
     if pair.kind != PAIR:
         raise GeometryError("sweep_pair needs a gear pair result; use sweep_rack for a rack")
+    if pair.center_distance >= pair.tip_radii[0] + pair.tip_radii[1]:
+        raise GeometryError(f"center distance {pair.center_distance:.3f} mm puts the tip circles "
+                            f"apart: the gears do not mesh")
     margin = tol.margin_modules * pair.mn
     offset = pair.flank_allowance / math.cos(pair.beta_b)
     m1, m2, pose = _members_pair(poly1, poly2, pair, margin, offset)
@@ -415,6 +413,9 @@ def sweep_rack(poly_pinion: np.ndarray, poly_rack: np.ndarray, pair: PairResult,
     ``clear_center_distance`` of the result is then a datum distance."""
     if pair.kind != RACK:
         raise GeometryError("sweep_rack needs a pinion-rack result")
+    if pair.center_distance - pair.tip_radii[1] >= pair.tip_radii[0]:
+        raise GeometryError(f"datum distance {pair.center_distance:.3f} mm keeps the rack tips "
+                            f"clear of the pinion tip circle: no mesh")
     margin = tol.margin_modules * pair.mn
     offset = pair.flank_allowance / math.cos(pair.beta_b)
     m1, m2, pose = _members_rack(poly_pinion, poly_rack, pair, rack, margin, offset)
