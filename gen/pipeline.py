@@ -18,7 +18,6 @@ from gen.errors import ParamError, PitchlineError
 from gen.params.project import RawProject, load_project
 from gen.parts.base import resolve
 from gen.validate.findings import ERROR, Finding, has_errors
-from gen.validate.pair_basic import basic_pair_findings
 
 
 @dataclass
@@ -35,50 +34,6 @@ class CheckResult:
 
 def _param_finding(exc: ParamError) -> Finding:
     return Finding(ERROR, "parameter", exc.one_line(), exc.part or "", "parameter file")
-
-
-def check_meshes(result: CheckResult) -> None:
-    for entry in result.project.entries.get("meshes", []):
-        label = entry.label
-        names = entry.values.get("parts")
-        allowed = {"parts", "center_distance", "print_clearance", "torque", "speed"}
-        for k in entry.values:
-            if k not in allowed:
-                exc = ParamError(f"unknown key '{k}'", file=entry.file, line=entry.line(k),
-                                 key=k, allowed=", ".join(sorted(allowed)))
-                result.findings.append(Finding(ERROR, "parameter", exc.one_line(), label, ""))
-        if (not isinstance(names, list) or len(names) != 2
-                or not all(isinstance(n, str) for n in names)):
-            exc = ParamError("must list exactly two part names", file=entry.file,
-                             line=entry.line("parts"), key="parts", value=names)
-            result.findings.append(Finding(ERROR, "parameter", exc.one_line(), label, ""))
-            continue
-        missing = [n for n in names if n not in result.project.parts]
-        if missing:
-            exc = ParamError(f"names unknown part '{missing[0]}'", file=entry.file,
-                             line=entry.line("parts"), key="parts")
-            result.findings.append(Finding(ERROR, "parameter", exc.one_line(), label, ""))
-            continue
-        if names[0] == names[1]:
-            exc = ParamError("a part cannot mesh with itself", file=entry.file,
-                             line=entry.line("parts"), key="parts")
-            result.findings.append(Finding(ERROR, "parameter", exc.one_line(), label, ""))
-            continue
-        a, b = (result.models.get(n) for n in names)
-        if a is None or b is None:
-            continue  # the part itself already failed
-        if not a.tooth or not b.tooth:
-            exc = ParamError("both parts must be gears or racks", file=entry.file,
-                             line=entry.line("parts"), key="parts")
-            result.findings.append(Finding(ERROR, "parameter", exc.one_line(), label, ""))
-            continue
-        label = f"{names[0]}+{names[1]}"
-        found = basic_pair_findings(label, names[0], a.tooth, names[1], b.tooth)
-        rel = os.path.relpath(entry.file)
-        found = [replace(f, where=f"{rel}:{entry.line('parts')}", key=f.key or "parts")
-                 for f in found]
-        result.findings += found
-        result.pairs.append({"name": label, "parts": names, "findings": found})
 
 
 def _locate(f: Finding, raw) -> Finding:
@@ -103,6 +58,8 @@ def check(paths) -> CheckResult:
         model.findings = [_locate(f, raw) for f in model.findings]
         result.models[name] = model
         result.findings += model.findings
+    from gen.pairs import check_meshes
+
     check_meshes(result)
     return result
 

@@ -58,6 +58,10 @@ def run(args) -> int:
             failed = True
             print_findings(oc.findings)
     write_manifest(args.out, result, outcomes)
+    if result.pairs:
+        from gen.commands.check import write_report
+
+        write_report(os.path.join(args.out, "report.html"), result)
     print(f"wrote {sum(len(o.files) for o in outcomes.values())} files to {args.out}/ "
           f"({summary_line(len(result.models), len(result.pairs), result.findings)})")
     print_findings([f for f in result.findings if f.severity != "info"])

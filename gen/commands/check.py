@@ -10,30 +10,82 @@ from gen.commands.output import print_findings, summary_line
 
 def register(sub):
     p = sub.add_parser("check", help="validate parameter files and every declared mesh (no CAD kernel)",
-                       description="Validate every part and declared mesh; exit 1 on any error.")
+                       description="Validate every part, mesh and drive; exit 1 on any error.")
     p.add_argument("paths", nargs="*", default=["params"], metavar="PATH",
                    help="parameter files or folders of them (default: params)")
-    p.add_argument("--json", action="store_true", help="print the findings as JSON")
+    p.add_argument("--json", action="store_true", help="print the results as JSON")
+    p.add_argument("--report", metavar="FILE.html", help="also write an HTML page with a picture "
+                   "of every mesh")
+    p.add_argument("-v", "--verbose", action="store_true", help="also list the notes")
     p.set_defaults(func=run)
+
+
+def mesh_table(pairs) -> list[str]:
+    """A short fixed-width table of the declared meshes (mm, degrees)."""
+    if not pairs:
+        return []
+    w = max(12, max(len(p["name"]) for p in pairs))
+    head = (f"  {'mesh':<{w}}  {'C mm':>8}  {'αw °':>6}  {'εα':>5}  {'jn mm':>6}  "
+            f"{'gap mm':>6}  status")
+    lines = [head]
+    for p in pairs:
+        n = p.get("numbers") or {}
+        status = "error" if any(f.severity == "error" for f in p["findings"]) else \
+            ("warning" if any(f.severity == "warning" for f in p["findings"]) else "ok")
+        if not n:
+            lines.append(f"  {p['name']:<{w}}  {'–':>8}  {'–':>6}  {'–':>5}  {'–':>6}  {'–':>6}  {status}")
+            continue
+        gap = n.get("min_clearance")
+        extra = f"  rack back at {n['rack_mounting_height']:.3f} mm" if "rack_mounting_height" in n else ""
+        lines.append(f"  {p['name']:<{w}}  {n['center_distance']:>8.3f}  "
+                     f"{n['working_pressure_angle']:>6.2f}  {n['contact_ratio']:>5.2f}  "
+                     f"{n['backlash_normal']:>6.3f}  "
+                     f"{('%.3f' % gap) if gap is not None else '–':>6}  {status}{extra}")
+    return lines
+
+
+def json_doc(result) -> dict:
+    return {
+        "ok": result.ok,
+        "files": result.project.files,
+        "parts": {n: {"kind": m.kind, "sizes": m.sizes} for n, m in sorted(result.models.items())},
+        "meshes": [{"name": p["name"], "parts": p["parts"], **p.get("numbers", {}),
+                    "status": "error" if any(f.severity == "error" for f in p["findings"]) else "ok"}
+                   for p in result.pairs],
+        "findings": [f.as_dict() for f in result.findings],
+    }
+
+
+def write_report(path: str, result) -> None:
+    from gen.export.report_html import ReportEntry, pair_rows, write_report as write_html
+    from gen.export.report_svg import mesh_svg
+
+    entries = []
+    for p in result.pairs:
+        pic = p.get("picture")
+        if pic is None:
+            entries.append(ReportEntry(p["name"], "", (), tuple(p["findings"])))
+            continue
+        poly1, poly2, pr, sw, rack = pic
+        svg = mesh_svg(poly1, poly2, pr, sw, rack=rack, title=p["name"])
+        entries.append(ReportEntry(p["name"], svg, pair_rows(pr, sw), tuple(p["findings"])))
+    write_html(path, entries, title="pitchline mesh check")
 
 
 def run(args) -> int:
     from gen.pipeline import check
 
     result = check(args.paths)
+    if args.report:
+        write_report(args.report, result)
     if args.json:
-        doc = {
-            "ok": result.ok,
-            "files": result.project.files,
-            "parts": {n: {"kind": m.kind, "sizes": m.sizes} for n, m in sorted(result.models.items())},
-            "meshes": [{"name": p["name"], "parts": p["parts"], **p.get("numbers", {}),
-                        "status": "error" if any(f.severity == "error" for f in p["findings"]) else "ok"}
-                       for p in result.pairs],
-            "findings": [f.as_dict() for f in result.findings],
-        }
-        json.dump(doc, sys.stdout, indent=2, sort_keys=True, default=float)
+        json.dump(json_doc(result), sys.stdout, indent=2, sort_keys=True, default=float)
         sys.stdout.write("\n")
-    else:
-        print(f"checked {summary_line(len(result.project.parts), len(result.pairs), result.findings)}")
-        print_findings(result.findings)
+        return 0 if result.ok else 1
+    print(f"checked {summary_line(len(result.project.parts), len(result.pairs), result.findings)}")
+    for line in mesh_table(result.pairs):
+        print(line)
+    print_findings(result.findings, show_info=args.verbose)
+    if args.report:
+        print(f"report: {args.report}")
     return 0 if result.ok else 1

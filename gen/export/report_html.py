@@ -6,12 +6,9 @@ links to fetch); no dates or other run-dependent text, so the same input gives t
 from __future__ import annotations
 
 import math
-import os
-import tempfile
 from dataclasses import dataclass, field
 from html import escape
 
-from gen.errors import ExportError
 from gen.geometry.pair import RACK, PairResult
 from gen.validate.findings import Finding
 from gen.validate.sweep import SweepResult
@@ -115,18 +112,7 @@ def render_report(entries, *, title: str = "Mesh check") -> str:
 
 
 def write_report(path, entries, *, title: str = "Mesh check") -> None:
-    """Write the page to ``path`` through a temporary file (no partial file on failure)."""
-    text = render_report(entries, title=title)
-    folder = os.path.dirname(os.path.abspath(path))
-    try:
-        fd, tmp = tempfile.mkstemp(dir=folder, suffix=".tmp")
-        try:
-            with os.fdopen(fd, "w", encoding="utf-8") as fh:
-                fh.write(text)
-            os.replace(tmp, path)
-        except BaseException:
-            if os.path.exists(tmp):
-                os.unlink(tmp)
-            raise
-    except OSError as exc:
-        raise ExportError(f"cannot write report {path}: {exc.strerror or exc}") from exc
+    """Write the page to ``path`` atomically (no partial file on failure)."""
+    from gen.export.atomic import write_atomic
+
+    write_atomic(str(path), render_report(entries, title=title).encode("utf-8"))

@@ -24,6 +24,7 @@ import math
 from dataclasses import dataclass
 
 from gen.geometry.pair import RACK, PairResult
+from gen.tolerances import TOL
 from gen.validate.findings import ERROR, INFO, WARNING, Finding
 from gen.validate.sweep import INTERFERING, SweepResult
 
@@ -123,7 +124,8 @@ def pair_findings(pair: PairResult, sweep: SweepResult | None = None, *, subject
                           subject))
         rf = pair.form_radii[i]
         ra = pair.active_start_radii[i]
-        if rf is not None and ra is not None and ra < rf - 1e-9:
+        # the form radius comes from a bisection at a tangent junction: good to ~2 µm
+        if rf is not None and ra is not None and ra < rf - 10 * TOL.flank:
             out.append(_f(WARNING, "contact-below-form",
                           f"contact on {names[i]} reaches down to r {ra:.3f} mm, below its "
                           f"involute start at r {rf:.3f} mm: the mating tip meets the fillet",

@@ -1,0 +1,123 @@
+"""Check every declared mesh: formula numbers, a swept rolling of the real outlines, findings,
+and the picture for the report. Numpy and shapely only (no CAD kernel)."""
+
+from __future__ import annotations
+
+import os
+from dataclasses import replace
+
+from gen.errors import GeometryError, ParamError
+from gen.geometry.pair import mesh_pair, mesh_rack
+from gen.validate.findings import ERROR, Finding
+from gen.validate.pair_basic import basic_pair_findings
+from gen.validate.pair_checks import pair_findings
+from gen.validate.sweep import sweep_pair, sweep_rack
+
+MESH_KEYS = ("parts", "center_distance", "print_clearance", "torque", "speed", "material",
+             "safety_factor")
+
+
+def _err(entry, key, msg, value=None):
+    exc = ParamError(msg, file=entry.file, line=entry.line(key), key=key, value=value,
+                     allowed=", ".join(MESH_KEYS) if msg.startswith("unknown") else None)
+    return Finding(ERROR, "parameter", exc.one_line(), entry.label, "")
+
+
+def _number(entry, key, lo=0.0):
+    v = entry.values.get(key)
+    if v is None:
+        return None, None
+    if isinstance(v, bool) or not isinstance(v, (int, float)) or not (float(v) > lo) \
+            or v != v or v in (float("inf"),):
+        return None, _err(entry, key, f"must be a number > {lo:g}", v)
+    return float(v), None
+
+
+def pair_numbers(pr, sw) -> dict:
+    """The per-pair numbers of ``check --json`` (mm and degrees)."""
+    out = {
+        "center_distance": pr.center_distance,
+        "reference_center_distance": pr.reference_center_distance,
+        "working_center_distance": pr.zero_backlash_center_distance,
+        "working_pressure_angle": pr.working_pressure_angle,
+        "center_distance_modification": pr.y,
+        "tip_shortening": pr.k,
+        "contact_ratio": pr.contact_ratio,
+        "overlap_ratio": pr.overlap_ratio,
+        "backlash_normal": pr.backlash_normal,
+        "backlash_circumferential": pr.backlash_circumferential,
+        "tip_clearance": pr.tip_clearance,
+    }
+    if pr.rack_back_distance is not None:
+        out["rack_mounting_height"] = pr.rack_back_distance
+    if sw is not None:
+        out.update(min_clearance=min(sw.min_clearance_drive, sw.min_clearance_coast),
+                   min_clearance_drive=sw.min_clearance_drive,
+                   min_clearance_coast=sw.min_clearance_coast,
+                   overlap_area=sw.overlap_area, swept_backlash=sw.swept_backlash,
+                   clear_center_distance=sw.clear_center_distance)
+    return out
+
+
+def check_pair(label, names, a, b, entry):
+    """(findings, numbers, picture-inputs) for one declared mesh of two part models."""
+    found = basic_pair_findings(label, names[0], a.tooth, names[1], b.tooth)
+    if found:
+        return found, {}, None
+    center, e1 = _number(entry, "center_distance")
+    clearance, e2 = _number(entry, "print_clearance", lo=-1e-12)
+    errs = [e for e in (e1, e2) if e]
+    if errs:
+        return errs, {}, None
+    ta, tb = a.tooth, b.tooth
+    if ta["role"] == "rack":
+        a, b, ta, tb = b, a, tb, ta
+    bw = min(ta["face_width"], tb["face_width"])
+    try:
+        if tb["role"] == "rack":
+            pr = mesh_rack(ta["sizes"], tb["rack_sizes"], center, face_width=bw,
+                           form_radius=ta["flank"].r_junction)
+            sw = sweep_rack(a.outline, b.outline, pr, tb["rack_sizes"])
+        else:
+            pr = mesh_pair(ta["sizes"], tb["sizes"], center, face_width=bw,
+                           form_radii=(ta["flank"].r_junction, tb["flank"].r_junction))
+            sw = sweep_pair(a.outline, b.outline, pr)
+    except GeometryError as exc:
+        return [Finding(ERROR, "no-mesh", str(exc), label, "", key="center_distance")], {}, None
+    found = pair_findings(pr, sw, subject=label, print_clearance=clearance)
+    return found, pair_numbers(pr, sw), (a.outline, b.outline, pr, sw,
+                                        tb.get("rack_sizes") if tb["role"] == "rack" else None)
+
+
+def check_meshes(result) -> None:
+    """Fill ``result.pairs`` and ``result.findings`` for every ``meshes:`` entry."""
+    for entry in result.project.entries.get("meshes", []):
+        label = entry.label
+        bad = [_err(entry, k, f"unknown key '{k}'") for k in entry.values if k not in MESH_KEYS]
+        names = entry.values.get("parts")
+        if (not isinstance(names, list) or len(names) != 2
+                or not all(isinstance(n, str) for n in names)):
+            bad.append(_err(entry, "parts", "must list exactly two part names", names))
+        elif any(n not in result.project.parts for n in names):
+            ghost = next(n for n in names if n not in result.project.parts)
+            bad.append(_err(entry, "parts", f"names unknown part '{ghost}'"))
+        elif names[0] == names[1]:
+            bad.append(_err(entry, "parts", "a part cannot mesh with itself"))
+        if bad:
+            result.findings += bad
+            continue
+        a, b = (result.models.get(n) for n in names)
+        if a is None or b is None:
+            continue  # the part itself already failed and says why
+        if not a.tooth or not b.tooth:
+            result.findings.append(_err(entry, "parts", "both parts must be gears or racks"))
+            continue
+        label = f"{names[0]}+{names[1]}"
+        found, numbers, picture = check_pair(label, names, a, b, entry)
+        rel = os.path.relpath(entry.file)
+        found = [f if f.code == "parameter" else
+                 replace(f, where=f.where or f"{rel}:{entry.line('parts')}", key=f.key or "parts")
+                 for f in found]
+        result.findings += found
+        result.pairs.append({"name": label, "parts": names, "findings": found,
+                             "numbers": numbers, "picture": picture})
