@@ -26,6 +26,7 @@ class CheckResult:
     models: dict = field(default_factory=dict)      # name -> PartModel
     findings: list = field(default_factory=list)
     pairs: list = field(default_factory=list)       # per-mesh result dicts
+    drives: list = field(default_factory=list)      # per-belt-drive result dicts
 
     @property
     def ok(self) -> bool:
@@ -58,9 +59,11 @@ def check(paths) -> CheckResult:
         model.findings = [_locate(f, raw) for f in model.findings]
         result.models[name] = model
         result.findings += model.findings
+    from gen.drives import check_drives
     from gen.pairs import check_meshes
 
     check_meshes(result)
+    check_drives(result)
     return result
 
 

@@ -52,6 +52,10 @@ def json_doc(result) -> dict:
         "meshes": [{"name": p["name"], "parts": p["parts"], **p.get("numbers", {}),
                     "status": "error" if any(f.severity == "error" for f in p["findings"]) else "ok"}
                    for p in result.pairs],
+        "drives": [{"name": d["name"], **{k: v for k, v in d["solution"].as_dict().items()
+                                          if k != "findings"},
+                    "status": "error" if any(f.severity == "error" for f in d["findings"]) else "ok"}
+                   for d in result.drives],
         "findings": [f.as_dict() for f in result.findings],
     }
 
@@ -83,7 +87,9 @@ def run(args) -> int:
         sys.stdout.write("\n")
         return 0 if result.ok else 1
     print(f"checked {summary_line(len(result.project.parts), len(result.pairs), result.findings)}")
-    for line in mesh_table(result.pairs):
+    from gen.drives import drive_table
+
+    for line in mesh_table(result.pairs) + drive_table(result.drives):
         print(line)
     print_findings(result.findings, show_info=args.verbose)
     if args.report:
