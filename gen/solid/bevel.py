@@ -60,6 +60,25 @@ def blank_solid(sizes: BevelSizes, bore_diameter: float):
     return cq.Solid.revolve(wire, [], 360.0, cq.Vector(0, 0, 0), cq.Vector(0, 0, 1))
 
 
+def _common(a, b):
+    """Boolean common of two shapes, run on all cores (BRepAlgoAPI_Common)."""
+    import cadquery as cq
+    from OCP.BRepAlgoAPI import BRepAlgoAPI_Common
+    from OCP.TopTools import TopTools_ListOfShape
+
+    args, tools = TopTools_ListOfShape(), TopTools_ListOfShape()
+    args.Append(a.wrapped)
+    tools.Append(b.wrapped)
+    op = BRepAlgoAPI_Common()
+    op.SetArguments(args)
+    op.SetTools(tools)
+    op.SetRunParallel(True)
+    op.Build()
+    if not op.IsDone():
+        raise GeometryError("the CAD kernel could not trim the bevel teeth to the blank")
+    return cq.Shape.cast(op.Shape())
+
+
 def build_bevel_solid(sizes: BevelSizes, bore_diameter: float, *, flank=None):
     """One valid straight bevel gear solid (``cadquery.Solid``), bore Ø ``bore_diameter`` mm.
 
@@ -73,7 +92,7 @@ def build_bevel_solid(sizes: BevelSizes, bore_diameter: float, *, flank=None):
     H = sizes.mounting_distance
     z_top = blank.BoundingBox().zmax
     body = tooth_body(sizes, -sizes.module, z_top + 0.5 * (H - z_top), flank)
-    result = blank.intersect(body)
+    result = _common(blank, body)
     solids = result.Solids()
     if len(solids) != 1:
         raise GeometryError(f"bevel gear solid came out as {len(solids)} solids, expected one")
