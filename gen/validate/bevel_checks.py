@@ -56,8 +56,8 @@ def bevel_findings(sizes: BevelSizes, flank: Flank, subject: str = "") -> list[F
         out.append(Finding(
             WARNING, "undercut",
             f"virtual gear zv = {sizes.zv:.2f} is undercut: the root fillet cuts the involute "
-            f"(fillet meets it at r = {flank.r_junction:.3f} mm below the flank start "
-            f"{r_form:.3f} mm); rack limit zv ≥ {zmin:.2f}, or shift x ≥ {xmin:.3f}",
+            f"(fillet meets it at r = {flank.r_junction:.4f} mm below the flank start "
+            f"{r_form:.4f} mm); rack limit zv ≥ {zmin:.2f}, or shift x ≥ {xmin:.3f}",
             subject, "Tredgold virtual gear, rack generation"))
     # face width limit
     if sizes.b > sizes.b_max + 1e-9:
