@@ -1,18 +1,21 @@
 """Bevel differential: kinematics, placement, tooth phase and interference."""
 
+import functools
 import math
 
 import numpy as np
 import pytest
 from shapely.geometry import Point, Polygon
 
+from gen.errors import GeometryError
 from gen.geometry.basic_rack import basic_rack
 from gen.geometry.bevel import bevel_tooth_outline_3d
 from gen.geometry.differential import (apply, bevel_differential, carrier_and_roll, gear_poses,
                                        input_commands, mesh_residual, pitch_point, rot_z)
 from gen.tolerances import TOL
 from gen.validate import measure
-from gen.validate.bevel_interference import differential_clearance, interference_findings
+from gen.validate.bevel_interference import (differential_clearance, differential_findings,
+                                             interference_findings)
 from gen.validate.findings import ERROR
 
 RACK = basic_rack("A")
@@ -97,10 +100,15 @@ def test_placement_common_apex_and_axes():
     assert np.allclose(poses["output_1"][:3, 2], -poses["output_2"][:3, 2])
 
 
+@functools.lru_cache(maxsize=None)
+def _outline(sizes):
+    return bevel_tooth_outline_3d(sizes)
+
+
 def _centre_offset(sizes, T, P, material: bool) -> float:
     """Angle from P to the middle of the tooth (material) or space containing it, measured on
     the gear's own large-end pitch circle section (own frame)."""
-    o = bevel_tooth_outline_3d(sizes)
+    o = _outline(sizes)
     q = np.linalg.solve(T[:3, :3], P - T[:3, 3])
     zP = sizes.mounting_distance - sizes.Re * math.cos(sizes.delta)
     assert q[2] == pytest.approx(zP, abs=1e-9)
@@ -131,7 +139,7 @@ def test_tooth_enters_space_on_every_mesh(zi, zo):
 
 def _has_tooth(diff, poses, name, P) -> bool:
     s = diff.sizes_of(name)
-    o = bevel_tooth_outline_3d(s)
+    o = _outline(s)
     q = np.linalg.solve(poses[name][:3, :3], P - poses[name][:3, 3])
     zP = s.mounting_distance - s.Re * math.cos(s.delta)
     return Polygon(o.on_plane(zP).polygon(TOL.chord)).contains(Point(q[0], q[1]))
@@ -149,13 +157,13 @@ def test_interference_clear_at_right_mounting_distance():
 
 def test_interference_reports_designed_backlash():
     diff = bevel_differential(24, 16, 2.0, 7.0, RACK, thinning=0.1)
-    reports = differential_clearance(diff, steps=3)
+    reports, found = differential_findings(diff, steps=3)
     # gap per side at the large end (computed): (0.1 + 0.1)·cos 20° / 2 = 0.094 mm, scaled by
     # R/Re on the smallest check sphere
     r = reports[0]
     expect = 0.5 * 0.2 * math.cos(math.radians(20)) * min(r.radii) / diff.input.Re
     assert r.min_clearance == pytest.approx(expect, rel=0.03)
-    assert not any(f.severity == ERROR for f in interference_findings(reports, 2.0))
+    assert {f.code for f in found} == {"bevel_clearance"}
 
 
 @pytest.mark.parametrize("shift,code", [(0.6, "bevel_overlap"), (-0.6, "apex_offset")])
@@ -167,3 +175,14 @@ def test_wrong_mounting_distance_is_an_error(shift, code):
     bad = {(f.code, f.message.split(":")[0]) for f in found if f.severity == ERROR}
     assert (code, "input_1/output_1") in bad and (code, "input_2/output_1") in bad
     assert not any(n.endswith("output_2") for _, n in bad)
+
+
+def test_single_output_differential():
+    diff = bevel_differential(18, 12, 1.5, 5.0, RACK, outputs=1)
+    assert diff.names == ("input_1", "input_2", "output_1")
+    assert diff.meshes == (("input_1", "output_1"), ("input_2", "output_1"))
+    reports = differential_clearance(diff, steps=2)
+    assert [r.pair for r in reports] == list(diff.meshes)
+    assert not any(f.severity == ERROR for f in interference_findings(reports, 1.5))
+    with pytest.raises(GeometryError, match="one or two"):
+        bevel_differential(18, 12, 1.5, 5.0, RACK, outputs=3)

@@ -179,7 +179,11 @@ def bevel_sizes(z: int, mating_z: int, module: float, shaft_angle: float, face_w
 
 
 def mating_sizes(sizes: BevelSizes, **kw) -> BevelSizes:
-    """The mate of ``sizes`` (same module, face width and rack; shift −x)."""
+    """The mate of ``sizes`` (same module, face width, rack and thinning; shift −x).
+
+    Keywords go to :func:`bevel_sizes` (``thinning``, ``mounting_distance``).
+    """
+    kw.setdefault("thinning", sizes.thinning)
     return bevel_sizes(sizes.mating_z, sizes.z, sizes.module, sizes.shaft_angle, sizes.b,
                        sizes.rack, -sizes.x, **kw)
 
@@ -341,6 +345,8 @@ def blank_profile(sizes: BevelSizes, bore_radius: float, overshoot: float | None
     plane front face, and the bore. The teeth are cut by intersecting this with the tooth
     surfaces, which run past the tips, so no tooth face coincides with a blank face.
     """
+    if bore_radius < 0:
+        raise GeometryError("bore diameter must be ≥ 0")
     m, k = sizes.module, sizes.small_end_scale
     e = m if overshoot is None else overshoot
     rv, ha, hf, land = sizes.rv, sizes.ha, sizes.hf, sizes.back_land
@@ -362,6 +368,4 @@ def blank_profile(sizes: BevelSizes, bore_radius: float, overshoot: float | None
     if bore_radius >= min(r_front, pts[1][0]) - 1e-9:
         raise GeometryError(f"bore Ø{2 * bore_radius:.3f} mm leaves no material under the teeth; "
                             f"largest allowed Ø{2 * min(r_front, pts[1][0]):.3f} mm")
-    if bore_radius < 0:
-        raise GeometryError("bore diameter must be ≥ 0")
     return np.array(pts, dtype=float)

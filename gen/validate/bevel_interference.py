@@ -217,3 +217,11 @@ def interference_findings(reports, module: float, designed: float = 0.0, subject
                                f"{name}: smallest gap {r.min_clearance:.4f} mm, overlap "
                                f"{r.overlap_depth:.4f} mm over {r.steps} steps", subject, src))
     return out
+
+
+def differential_findings(diff: BevelDifferential, steps: int = 6, axial_shift: dict | None = None,
+                          subject: str = "") -> tuple[list[MeshClearance], list[Finding]]:
+    """Clearance reports and findings of a differential (designed gap from the thinning)."""
+    reports = differential_clearance(diff, steps, axial_shift)
+    gap = designed_gap(diff.input, diff.output)
+    return reports, interference_findings(reports, diff.input.module, gap, subject)
