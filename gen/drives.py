@@ -79,7 +79,7 @@ def check_drives(result) -> None:
             result.findings.append(_err(entry, key, str(exc)))
             continue
         rel = os.path.relpath(entry.file)
-        found = [replace(f, subject=entry.label, where=f"{rel}:{entry.line(None)}")
+        found = [replace(f, subject=entry.label, where=f"{rel}:{entry.line(None)}", scope="drive")
                  for f in sol.findings]
         result.findings += found
         result.drives.append({"name": entry.label, "solution": sol, "findings": found})

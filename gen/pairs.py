@@ -116,7 +116,8 @@ def check_meshes(result) -> None:
         found, numbers, picture = check_pair(label, names, a, b, entry)
         rel = os.path.relpath(entry.file)
         found = [f if f.code == "parameter" else
-                 replace(f, where=f.where or f"{rel}:{entry.line('parts')}", key=f.key or "parts")
+                 replace(f, where=f.where or f"{rel}:{entry.line('parts')}", key=f.key or "parts",
+                         scope="mesh")
                  for f in found]
         result.findings += found
         result.pairs.append({"name": label, "parts": names, "findings": found,

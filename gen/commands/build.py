@@ -1,21 +1,25 @@
-"""``pitchline build``: validate, check meshes, then export every part."""
+"""``pitchline build``: validate, check meshes, then export every part (incrementally)."""
 
 from __future__ import annotations
 
 import os
 import sys
 
-from gen.commands.output import print_findings, summary_line
+from gen.commands.output import print_findings, result_summary
 
 
 def register(sub):
-    p = sub.add_parser("build", help="validate, then write STEP/STL files and a manifest",
-                       description="Validate every part and mesh; if all pass, export each part.")
+    p = sub.add_parser("build", help="validate, then write STEP/STL files, a manifest and a report",
+                       description="Validate every part, mesh, drive and assembly; if all pass, "
+                                   "export each part whose parameters changed.")
     p.add_argument("paths", nargs="*", default=["params"], metavar="PATH",
                    help="parameter files or folders of them (default: params)")
     p.add_argument("--out", default="out", metavar="DIR", help="output folder (default: out)")
     p.add_argument("--format", default="step,stl", metavar="LIST",
-                   help="comma-separated formats: step, stl (default: step,stl)")
+                   help="comma-separated formats (default: step,stl)")
+    p.add_argument("--jobs", type=int, default=1, metavar="N",
+                   help="export parts in N parallel processes (default: 1)")
+    p.add_argument("--force", action="store_true", help="rebuild parts that are up to date")
     p.set_defaults(func=run)
 
 
@@ -27,42 +31,39 @@ def parse_formats(text: str):
     if bad or not fmts:
         raise ValueError(f"unknown format '{bad[0] if bad else text}'; allowed: "
                          + ", ".join(FORMATS))
-    return fmts
+    return list(dict.fromkeys(fmts))
 
 
 def run(args) -> int:
-    from gen.pipeline import check, export_part, write_manifest
-    from gen.validate.findings import has_errors
+    from gen.build import Progress, build
+    from gen.pipeline import check
 
     try:
         formats = parse_formats(args.format)
+        if args.jobs < 1:
+            raise ValueError("--jobs takes a whole number ≥ 1")
     except ValueError as exc:
         print(f"pitchline build: {exc}", file=sys.stderr)
         return 2
     result = check(args.paths)
     if not result.ok:
-        print(f"not built: {summary_line(len(result.project.parts), len(result.pairs), result.findings)}")
+        print(f"not built: {result_summary(result)}")
         print_findings(result.findings)
         print("nothing was written", file=sys.stderr)
         return 1
-    os.makedirs(args.out, exist_ok=True)
-    outcomes = {}
-    failed = False
-    for name in sorted(result.models):
-        oc = export_part(result.models[name], args.out, formats)
-        outcomes[name] = oc
-        sizes = ", ".join(f"{f} {v['bytes'] / 1024:.0f} kB" for f, v in oc.files.items())
-        state = "built " if oc.ok else "FAILED"
-        print(f"  {state} {name:<24} {sizes:<28} {oc.seconds:6.2f} s", flush=True)
+    report = build(result, args.out, formats, force=args.force, jobs=args.jobs,
+                   progress=Progress(len(result.models)))
+    for oc in report.outcomes.values():
         if not oc.ok:
-            failed = True
             print_findings(oc.findings)
-    write_manifest(args.out, result, outcomes)
     if result.pairs:
         from gen.commands.check import write_report
 
         write_report(os.path.join(args.out, "report.html"), result)
-    print(f"wrote {sum(len(o.files) for o in outcomes.values())} files to {args.out}/ "
-          f"({summary_line(len(result.models), len(result.pairs), result.findings)})")
+    built = sum(o.status == "built" for o in report.outcomes.values())
+    kept = sum(o.status == "up_to_date" for o in report.outcomes.values())
+    failed = sum(o.status == "failed" for o in report.outcomes.values())
+    print(f"{args.out}/: {built} built, {kept} up to date, {failed} failed in "
+          f"{report.seconds:.1f} s ({result_summary(result)})")
     print_findings([f for f in result.findings if f.severity != "info"])
-    return 1 if failed or has_errors(result.findings) else 0
+    return 0 if report.ok else 1

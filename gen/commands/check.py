@@ -5,7 +5,7 @@ from __future__ import annotations
 import json
 import sys
 
-from gen.commands.output import print_findings, summary_line
+from gen.commands.output import print_findings, result_summary
 
 
 def register(sub):
@@ -44,6 +44,23 @@ def mesh_table(pairs) -> list[str]:
     return lines
 
 
+def assembly_lines(assemblies) -> list[str]:
+    lines = []
+    for a in assemblies:
+        k = a.kinematics
+        lines.append(f"  assembly {a.name}: carrier = {k['carrier']}, output roll = {k['output_roll']}")
+        lines.append(f"    inverse: {k['inverse']}")
+        if "command" in k:
+            c = k["command"]
+            lines.append(f"    pitch {c['pitch']:g}°, roll {c['roll']:g}° → input 1 "
+                         f"{c['theta1']:.3f}°, input 2 {c['theta2']:.3f}°")
+        gaps = [r.min_clearance for r in getattr(a, "reports", [])]
+        if gaps:
+            lines.append(f"    placed in mesh: smallest gap {min(gaps):.3f} mm over one tooth pitch; "
+                         f"input back faces {a.sizes['input_back_face_spacing']:.3f} mm apart")
+    return lines
+
+
 def json_doc(result) -> dict:
     return {
         "ok": result.ok,
@@ -56,6 +73,10 @@ def json_doc(result) -> dict:
                                           if k != "findings"},
                     "status": "error" if any(f.severity == "error" for f in d["findings"]) else "ok"}
                    for d in result.drives],
+        "assemblies": [{"name": a.name, "kind": a.kind, "parts": a.parts, "sizes": a.sizes,
+                        "kinematics": a.kinematics,
+                        "status": "error" if any(f.severity == "error" for f in a.findings) else "ok"}
+                       for a in result.assemblies],
         "findings": [f.as_dict() for f in result.findings],
     }
 
@@ -86,10 +107,11 @@ def run(args) -> int:
         json.dump(json_doc(result), sys.stdout, indent=2, sort_keys=True, default=float)
         sys.stdout.write("\n")
         return 0 if result.ok else 1
-    print(f"checked {summary_line(len(result.project.parts), len(result.pairs), result.findings)}")
+    print(f"checked {result_summary(result)}")
     from gen.drives import drive_table
 
-    for line in mesh_table(result.pairs) + drive_table(result.drives):
+    for line in mesh_table(result.pairs) + drive_table(result.drives) + \
+            assembly_lines(result.assemblies):
         print(line)
     print_findings(result.findings, show_info=args.verbose)
     if args.report:

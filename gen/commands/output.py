@@ -21,8 +21,7 @@ def finding_line(f) -> str:
     if f.code == "parameter":          # a ParamError already names file, part and key
         return f"  {MARK[f.severity]}  {f.message}"
     loc = ", ".join(x for x in (f.where, f"key '{f.key}'" if f.key else "") if x)
-    noun = "mesh" if "+" in f.subject else "part"   # part names never hold '+'
-    who = f"{noun} '{f.subject}'" if f.where else (f.subject or "-")
+    who = f"{f.scope} '{f.subject}'" if f.where else (f.subject or "-")
     return f"  {MARK[f.severity]}  {who}{f' ({loc})' if loc else ''}: {f.message}"
 
 
@@ -33,9 +32,18 @@ def print_findings(findings, *, stream=None, show_info: bool = True) -> None:
             stream.write(finding_line(f) + "\n")
 
 
-def summary_line(n_parts: int, n_meshes: int, findings) -> str:
-    c = count(findings)
-    return (f"{n_parts} part{'s' if n_parts != 1 else ''}, {n_meshes} mesh"
-            f"{'es' if n_meshes != 1 else ''}: {c[ERROR]} error{'s' if c[ERROR] != 1 else ''}, "
-            f"{c[WARNING]} warning{'s' if c[WARNING] != 1 else ''}, {c[INFO]} note"
-            f"{'s' if c[INFO] != 1 else ''}")
+def _n(k: int, word: str, plural: str | None = None) -> str:
+    return f"{k} {word if k == 1 else (plural or word + 's')}"
+
+
+def result_summary(result) -> str:
+    """'9 parts, 2 meshes, 3 drives, 1 assembly: 0 errors, ...' for a CheckResult."""
+    n_parts = len(set(result.project.parts) | set(result.models))
+    bits = [_n(n_parts, "part"), _n(len(result.pairs), "mesh", "meshes")]
+    if result.drives:
+        bits.append(_n(len(result.drives), "drive"))
+    if result.assemblies:
+        bits.append(_n(len(result.assemblies), "assembly", "assemblies"))
+    c = count(result.findings)
+    return (", ".join(bits) + f": {_n(c[ERROR], 'error')}, {_n(c[WARNING], 'warning')}, "
+            f"{_n(c[INFO], 'note')}")

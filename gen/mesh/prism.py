@@ -61,7 +61,7 @@ def body_mesh(body, tol: float = 0.01):
         man = man - radial_hole_manifold(h, tol)
     mesh = man.to_mesh()
     tm = trimesh.Trimesh(vertices=np.asarray(mesh.vert_properties)[:, :3],
-                         faces=np.asarray(mesh.tri_verts), process=True)
+                         faces=np.asarray(mesh.tri_verts), process=False)
     if not tm.is_watertight or tm.volume <= 0:
         raise GeometryError("mesh is not watertight or has no volume")
     return tm

@@ -20,6 +20,8 @@ KINDS = {
     "spur_gear": "spur_gear",
     "rack": "rack",
     "timing_pulley": "timing_pulley",
+    "bevel_gear": "bevel_gear",
+    "miter_gear": "miter_gear",
 }
 
 
@@ -41,6 +43,9 @@ class PartModel:
     chord_tol: float = 0.01
     mesh_check_z: float | None = None   # slice height for mesh_check (default: mid face)
     pulley: dict = field(default_factory=dict)  # belt data for drive checks
+    bevel: dict = field(default_factory=dict)   # bevel sizes and flank
+    mesh_fn: object = None       # builds the trimesh when ``body`` is None
+    solid_fn: object = None      # builds the CAD solid when ``body`` is None
 
 
 def kind_module(kind: str, where: Where):

@@ -17,6 +17,7 @@ class Finding:
     source: str = ""      # formula / standard behind it
     key: str = ""         # parameter the finding is about, when there is one
     where: str = ""       # file:line of that parameter (filled in by the pipeline)
+    scope: str = "part"   # what the subject is: part, mesh, drive or assembly
 
     def as_dict(self) -> dict:
         return asdict(self)

@@ -1,0 +1,284 @@
+"""Build: export every validated part (and assembly) to files, incrementally, in parallel.
+
+* Nothing is written unless :func:`gen.pipeline.check` passes.
+* A part whose parameter hash (resolved values, kind, tool version) and requested formats match
+  the previous manifest, and whose files are still there with the same SHA-256, is skipped
+  (``"status": "up_to_date"``); ``force`` rebuilds everything.
+* ``jobs > 1`` exports parts in forked worker processes (the parent has not loaded the CAD
+  kernel at that point, so each worker loads its own).
+* Every file is written atomically; one part's failure leaves the others' files intact.
+"""
+
+from __future__ import annotations
+
+import hashlib
+import json
+import os
+import sys
+import time
+from dataclasses import dataclass, field
+
+from gen import __version__
+from gen.errors import PitchlineError
+from gen.validate.findings import ERROR, Finding, has_errors
+
+MANIFEST = "manifest.json"
+
+
+def params_hash(model, formats=()) -> str:
+    blob = json.dumps({"kind": model.kind, "values": model.values, "version": __version__,
+                       "formats": sorted(formats)}, sort_keys=True, default=str).encode()
+    return hashlib.sha256(blob).hexdigest()
+
+
+@dataclass
+class PartOutcome:
+    name: str
+    ok: bool
+    status: str = "built"                       # built | up_to_date | failed
+    files: dict = field(default_factory=dict)   # format -> {"path", "bytes", "sha256"}
+    seconds: float = 0.0
+    findings: list = field(default_factory=list)
+    mass: dict = field(default_factory=dict)
+
+
+def _sha(path: str) -> str:
+    h = hashlib.sha256()
+    with open(path, "rb") as fh:
+        for chunk in iter(lambda: fh.read(1 << 20), b""):
+            h.update(chunk)
+    return h.hexdigest()
+
+
+def _file_info(path: str, size: int) -> dict:
+    return {"path": os.path.basename(path), "bytes": size, "sha256": _sha(path)}
+
+
+def make_mesh(model):
+    if model.body is not None:
+        from gen.mesh.prism import body_mesh
+        return body_mesh(model.body, model.chord_tol)
+    return model.mesh_fn()
+
+
+def make_solid(model):
+    if model.body is not None:
+        from gen.solid.prism import body_solid
+        return body_solid(model.body)
+    return model.solid_fn()
+
+
+def export_part(model, out: str, formats) -> PartOutcome:
+    """Mesh, measure, then write the part's files. Raises nothing: failures are findings."""
+    from gen.export.registry import FORMATS
+    from gen.mesh.prism import slice_polygons
+
+    t0 = time.perf_counter()
+    outcome = PartOutcome(name=model.name, ok=True)
+    try:
+        mesh = make_mesh(model)
+        if model.mesh_check is not None:
+            z = model.mesh_check_z
+            if z is None:
+                z = 0.5 * model.sizes.get("face_width", 0.0)
+            outcome.findings += model.mesh_check(slice_polygons(mesh, z), z)
+        if has_errors(outcome.findings):
+            outcome.ok, outcome.status = False, "failed"
+            return outcome
+        outcome.mass = {"volume": float(mesh.volume)}
+        for fmt in formats:
+            suffix, _kernel = FORMATS[fmt]
+            path = os.path.join(out, model.name + suffix)
+            if fmt == "stl":
+                from gen.export.stl import write_stl
+                size = write_stl(mesh, path)
+            elif fmt == "step":
+                from gen.export.step import write_step
+                solid = make_solid(model)
+                vol = solid.Volume()
+                if abs(vol - mesh.volume) > 0.01 * abs(vol):
+                    raise PitchlineError(f"STEP volume {vol:.3f} mm³ and mesh volume "
+                                         f"{mesh.volume:.3f} mm³ disagree by more than 1 %")
+                size = write_step(solid, path, model.name)
+            else:  # pragma: no cover - FORMATS and this table are kept in step
+                raise PitchlineError(f"no writer for format {fmt}")
+            outcome.files[fmt] = _file_info(path, size)
+    except PitchlineError as exc:
+        outcome.ok, outcome.status = False, "failed"
+        outcome.findings.append(Finding(ERROR, "export", str(exc), model.name, ""))
+    except Exception as exc:  # kernel failures are reported, never a traceback
+        outcome.ok, outcome.status = False, "failed"
+        outcome.findings.append(Finding(ERROR, "export", f"{type(exc).__name__}: {exc}",
+                                        model.name, ""))
+    outcome.seconds = time.perf_counter() - t0
+    return outcome
+
+
+def read_manifest(out: str) -> dict:
+    try:
+        with open(os.path.join(out, MANIFEST), encoding="utf-8") as fh:
+            doc = json.load(fh)
+        return doc.get("parts", {}) if doc.get("version") == __version__ else {}
+    except (OSError, ValueError):
+        return {}
+
+
+def up_to_date(prev: dict, phash: str, out: str) -> bool:
+    if not prev or prev.get("params_hash") != phash or prev.get("status") == "failed":
+        return False
+    for info in prev.get("files", {}).values():
+        path = os.path.join(out, info["path"])
+        if not os.path.exists(path) or os.path.getsize(path) != info["bytes"] or \
+                _sha(path) != info["sha256"]:
+            return False
+    return bool(prev.get("files"))
+
+
+# --- parallel export (fork: workers inherit the models, nothing is pickled but the outcome)
+_JOB = {}
+
+
+def _work(name: str) -> PartOutcome:
+    return export_part(_JOB["models"][name], _JOB["out"], _JOB["formats"])
+
+
+class Progress:
+    """A one-line bar on a terminal, plain lines otherwise."""
+
+    def __init__(self, total: int, stream=None, enabled: bool | None = None):
+        self.total, self.done = total, 0
+        self.stream = stream or sys.stdout
+        self.tty = self.stream.isatty() if enabled is None else enabled
+
+    def step(self, outcome: PartOutcome) -> None:
+        self.done += 1
+        sizes = ", ".join(f"{f} {v['bytes'] / 1024:.0f} kB" for f, v in outcome.files.items())
+        if self.tty:
+            n = 24
+            fill = int(n * self.done / max(self.total, 1))
+            self.stream.write(f"\r  [{'=' * fill}{' ' * (n - fill)}] {self.done}/{self.total} "
+                              f"{outcome.name[:30]:<30}")
+            if self.done == self.total:
+                self.stream.write("\n")
+        else:
+            state = {"built": "built ", "up_to_date": "kept  ", "failed": "FAILED"}[outcome.status]
+            self.stream.write(f"  {state} {outcome.name:<26} {sizes:<30} {outcome.seconds:6.2f} s\n")
+        self.stream.flush()
+
+
+@dataclass
+class BuildResult:
+    check: object
+    outcomes: dict = field(default_factory=dict)
+    seconds: float = 0.0
+
+    @property
+    def ok(self) -> bool:
+        return all(o.ok for o in self.outcomes.values()) and self.check.ok
+
+
+def build(result, out: str, formats, *, force: bool = False, jobs: int = 1,
+          progress: Progress | None = None) -> BuildResult:
+    """Export every model of a passing CheckResult into ``out``."""
+    t0 = time.perf_counter()
+    os.makedirs(out, exist_ok=True)
+    prev = {} if force else read_manifest(out)
+    report = BuildResult(check=result)
+    todo = []
+    models = dict(result.models)
+    for name in sorted(models):
+        phash = params_hash(models[name], formats)
+        if up_to_date(prev.get(name, {}), phash, out):
+            old = prev[name]
+            report.outcomes[name] = PartOutcome(name, True, "up_to_date", old["files"], 0.0, [],
+                                                old.get("mass_properties", {}))
+        else:
+            todo.append(name)
+    progress = progress or Progress(len(models), enabled=False)
+    for name in sorted(report.outcomes):
+        progress.step(report.outcomes[name])
+    if jobs > 1 and len(todo) > 1:
+        import multiprocessing as mp
+
+        _JOB.update(models=models, out=out, formats=tuple(formats))
+        ctx = mp.get_context("fork")
+        with ctx.Pool(min(jobs, len(todo))) as pool:
+            for oc in pool.imap_unordered(_work, todo):
+                report.outcomes[oc.name] = oc
+                progress.step(oc)
+        _JOB.clear()
+    else:
+        for name in todo:
+            oc = export_part(models[name], out, formats)
+            report.outcomes[name] = oc
+            progress.step(oc)
+    _assemblies(result, out, formats, report, prev)
+    write_manifest(out, result, report.outcomes, formats)
+    report.seconds = time.perf_counter() - t0
+    return report
+
+
+def _assemblies(result, out, formats, report, prev) -> None:
+    if "step" not in formats:
+        return
+    from gen.assemblies import assembly_step
+
+    for asm in result.assemblies:
+        parts = [report.outcomes.get(p) for p in asm.parts.values()]
+        path = os.path.join(out, asm.name + ".step")
+        key = f"assembly:{asm.name}"
+        phash = hashlib.sha256(json.dumps({"values": asm.values, "v": __version__},
+                                          sort_keys=True, default=str).encode()).hexdigest()
+        if all(p is not None and p.status == "up_to_date" for p in parts) and \
+                up_to_date(prev.get(key, {}), phash, out):
+            oc = PartOutcome(key, True, "up_to_date", prev[key]["files"])
+        else:
+            t0 = time.perf_counter()
+            oc = PartOutcome(key, True)
+            try:
+                size = assembly_step(asm, result.models, path)
+                oc.files["step"] = _file_info(path, size)
+            except Exception as exc:  # reported, never a traceback
+                oc.ok, oc.status = False, "failed"
+                oc.findings.append(Finding(ERROR, "export", f"assembly STEP: {exc}", asm.name, ""))
+            oc.seconds = time.perf_counter() - t0
+        oc.params_hash = phash
+        report.outcomes[key] = oc
+
+
+def write_manifest(out: str, result, outcomes: dict, formats=()) -> str:
+    from gen.export.atomic import write_atomic
+
+    parts = {}
+    for name in sorted(result.models):
+        model = result.models[name]
+        oc = outcomes.get(name)
+        parts[name] = {
+            "kind": model.kind,
+            "train": model.train,
+            "assembly": getattr(model, "assembly", None),
+            "source": os.path.relpath(model.file) if model.file else None,
+            "params_hash": params_hash(model, formats),
+            "sizes": model.sizes,
+            "files": oc.files if oc else {},
+            "status": oc.status if oc else "failed",
+            **({"mass_properties": oc.mass} if oc and oc.mass else {}),
+        }
+    for asm in result.assemblies:
+        key = f"assembly:{asm.name}"
+        oc = outcomes.get(key)
+        parts[key] = {"kind": asm.kind, "parts": asm.parts, "sizes": asm.sizes,
+                      "kinematics": asm.kinematics,
+                      "params_hash": getattr(oc, "params_hash", None),
+                      "files": oc.files if oc else {},
+                      "status": oc.status if oc else "skipped"}
+    doc = {"tool": "pitchline", "version": __version__,
+           "units": {"length": "mm", "angle": "deg", "volume": "mm3"},
+           "parts": parts,
+           "meshes": [{"name": p["name"], "parts": p["parts"], **p.get("numbers", {})}
+                      for p in result.pairs],
+           "drives": [{"name": d["name"], **{k: v for k, v in d["solution"].as_dict().items()
+                                             if k != "findings"}} for d in result.drives]}
+    path = os.path.join(out, MANIFEST)
+    write_atomic(path, (json.dumps(doc, indent=2, sort_keys=True) + "\n").encode())
+    return path

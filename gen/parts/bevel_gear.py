@@ -1,0 +1,104 @@
+"""Part kind ``bevel_gear``: straight bevel gear, Tredgold back-cone tooth form.
+
+Own frame: axis Z, back (mounting) face on z = 0, teeth toward +Z, cone apex on the axis at
+z = mounting distance. See :mod:`gen.geometry.bevel` for the conventions.
+"""
+
+from __future__ import annotations
+
+import math
+
+from gen.errors import GeometryError
+from gen.geometry.basic_rack import basic_rack
+from gen.geometry.bevel import bevel_sizes, virtual_flank
+from gen.params.schema import REQUIRED, Key
+from gen.parts import common_keys as K
+from gen.parts.base import PartModel
+from gen.validate import measure
+from gen.validate.bevel_checks import bevel_findings
+from gen.validate.findings import ERROR, Finding
+
+KIND = "bevel_gear"
+BORE = Key("bore", "float", 0.0, lo=0, hi=2000, unit="mm", doc="plain bore diameter (0: none)")
+COMMON = (
+    K.MODULE, K.TEETH, K.PRESSURE_ANGLE, K.PROFILE,
+    Key("face_width", "float", REQUIRED, lo=0, hi=2000, lo_open=True, unit="mm",
+        doc="along the pitch-cone generator; at most min(Re/3, 10 m)"),
+    Key("profile_shift", "float", 0.0, lo=-0.6, hi=0.6, doc="x; the mating gear takes −x"),
+    K.BACKLASH_ALLOWANCE, BORE,
+    Key("mounting_distance", "float", None, lo=0, hi=5000, lo_open=True, unit="mm",
+        doc="cone apex to back face (default: derived from the blank)"),
+    K.FORCE, K.CHORD,
+)
+KEYS = COMMON + (
+    Key("mating_teeth", "int", REQUIRED, lo=3, hi=10000),
+    Key("shaft_angle", "angle", 90.0, lo=10, hi=170, unit="deg"),
+)
+EXAMPLE = {"module": 1.5, "teeth": 20, "mating_teeth": 30, "face_width": 8, "bore": 5}
+
+
+def make_bevel(name, values, where, *, kind, mating_teeth, shaft_angle) -> PartModel:
+    rack = basic_rack(values["profile"]).with_alpha(values["pressure_angle"])
+    try:
+        sizes = bevel_sizes(values["teeth"], mating_teeth, values["module"], shaft_angle,
+                            values["face_width"], rack, values["profile_shift"],
+                            thinning=values["backlash_allowance"],
+                            mounting_distance=values["mounting_distance"])
+        flank = virtual_flank(sizes)
+    except GeometryError as exc:
+        msg = str(exc)
+        key = ("face_width" if "face" in msg else "mounting_distance" if "mounting" in msg
+               else "teeth")
+        raise where.error(key, msg, values[key]) from None
+    return bevel_model(name, kind, values, sizes, flank)
+
+
+def bevel_model(name, kind, values, sizes, flank) -> PartModel:
+    """PartModel of a bevel gear whose sizes and flank are known (parts and assemblies)."""
+    findings = [Finding(f.severity, f.code, f.message, name, f.source, key=f.key or "teeth")
+                for f in bevel_findings(sizes, flank, subject=name)]
+    bore = values.get("bore") or 0.0
+    from gen.geometry.bevel import blank_profile
+
+    try:
+        blank_profile(sizes, bore / 2.0)
+    except GeometryError as exc:
+        findings.append(Finding(ERROR, "bore-too-big", str(exc), name, "geometry", key="bore"))
+    chord = values["chord_tolerance"]
+    manifest = {"module": sizes.module, "teeth": sizes.z, "mating_teeth": sizes.mating_z,
+                "shaft_angle": math.degrees(sizes.shaft_angle),
+                "pressure_angle": math.degrees(sizes.alpha), "pitch_diameter": sizes.de,
+                "tip_diameter": sizes.dae, "root_diameter": sizes.dfe,
+                "bore": bore, **sizes.manifest()}
+    model = PartModel(name=name, kind=kind, values=values, body=None, sizes=manifest,
+                      findings=findings, chord_tol=chord)
+    model.bevel = {"sizes": sizes, "flank": flank, "bore": bore}
+
+    def mesh_fn():
+        from gen.mesh.bevel import bevel_mesh
+        return bevel_mesh(sizes, bore, flank, chord)
+
+    def solid_fn():
+        from gen.solid.bevel import build_bevel_solid
+        return build_bevel_solid(sizes, bore, flank=flank)
+
+    model.mesh_fn, model.solid_fn = mesh_fn, solid_fn
+    # slice through the middle of the face, on the pitch cone
+    R_mid = sizes.Re - sizes.b / 2.0
+    z_mid = sizes.mounting_distance - R_mid * math.cos(sizes.delta)
+
+    def mesh_check(polys, _z):
+        out = []
+        outer = max(polys, key=len)
+        if measure.tooth_count(outer) != sizes.z:
+            out.append(Finding(ERROR, "tooth-count", f"mesh slice z={z_mid:.3f}: counted "
+                               f"{measure.tooth_count(outer)} teeth, expected {sizes.z}", name, ""))
+        return out
+
+    model.mesh_check, model.mesh_check_z = mesh_check, z_mid
+    return model
+
+
+def make(name, values, where):
+    return make_bevel(name, values, where, kind=KIND, mating_teeth=values["mating_teeth"],
+                      shaft_angle=values["shaft_angle"])
