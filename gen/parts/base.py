@@ -19,6 +19,7 @@ from gen.params.schema import Where, check_mapping, suggest
 KINDS = {
     "spur_gear": "spur_gear",
     "rack": "rack",
+    "fit_coupon": "coupon",
 }
 
 
