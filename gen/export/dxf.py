@@ -90,8 +90,7 @@ def dxf_bytes(section, name: str) -> bytes:
                 _add_curve(msp, curve, attribs, fit_points_to_cad_cv)
         box = bbox.extents(msp)
         if box.has_data:
-            doc.header["$EXTMIN"] = tuple(box.extmin)
-            doc.header["$EXTMAX"] = tuple(box.extmax)
+            msp.reset_extents(box.extmin, box.extmax)  # copied to $EXTMIN/$EXTMAX on write
             zoom.extents(msp)
         text = io.StringIO()
         doc.write(text)
