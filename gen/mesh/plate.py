@@ -53,12 +53,14 @@ def resting_faces(mesh):
     group_area = np.bincount(inverse, weights=areas, minlength=len(keys))
     verts = np.asarray(mesh.vertices)
     tri = np.asarray(mesh.faces)
+    raw = np.asarray(mesh.face_normals)
     out = []
     for g in np.argsort(-group_area)[:CANDIDATES]:
-        n = keys[g] / np.linalg.norm(keys[g])
+        sel = inverse == g
+        n = (raw[sel] * areas[sel, None]).sum(axis=0)   # unrounded, area-weighted
+        n = n / np.linalg.norm(n)
         heights = verts @ n
         top = heights.max()
-        sel = inverse == g
         on_plane = np.all(heights[tri[sel]] >= top - PLANE_TOL, axis=1)
         area = float(areas[sel][on_plane].sum())
         if area > 0:
