@@ -283,14 +283,10 @@ def make(name, values, where):
               "rack": {"sizes": rs, "offset": rack_off,
                        "centroid": centroid(rloop.polygon(tol)) + rack_off},
               "holes": [{"centre": c, "diameter": d, "allowance": a, "dots": hd}
-                        for c, d, a, hd in zip(holes, diam, bore_steps, hole_dots)],
-              "z_dots": t + DOT_HEIGHT / 2.0}
-    lo = np.min([p.min(axis=0) for p, _, _ in marks] + [rack_sec.outer.polygon(tol).min(axis=0)],
-                axis=0)
-    hi = np.max([p.max(axis=0) for p, _, _ in marks] + [rack_sec.outer.polygon(tol).max(axis=0)],
-                axis=0)
+                        for c, d, a, hd in zip(holes, diam, bore_steps, hole_dots)]}
     polys = [p for sec in [strip_sec, rack_sec] + [s["section"] for s in sectors]
              for p in [sec.polygons(tol)[0], *sec.polygons(tol)[1]]]
+    lo, hi = np.vstack(polys).min(axis=0), np.vstack(polys).max(axis=0)
     measured = measure_coupon(polys, layout)
     findings = coupon_findings(name, measured, layout, tol=TOL.size, chord=tol, where="section")
     findings.append(Finding(INFO, "coupon-steps",
