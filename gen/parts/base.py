@@ -22,6 +22,7 @@ KINDS = {
     "timing_pulley": "timing_pulley",
     "bevel_gear": "bevel_gear",
     "miter_gear": "miter_gear",
+    "fit_coupon": "coupon",
 }
 
 
