@@ -135,7 +135,7 @@ def test_teeth_and_dots_counted_on_slices(built):
 
 def test_one_step_build(built, tmp_path):
     from gen.export.step import read_step
-    from gen.pipeline import export_part
+    from gen.build import export_part
 
     _, model, mesh = built
     out = export_part(model, str(tmp_path), ("step",))
@@ -180,8 +180,6 @@ def test_custom_steps_through_make():
     assert len(model.coupon["measured"]["holes"]) == 2
 
 
-@pytest.mark.xfail(strict=True, raises=ParamError,
-                   reason="gen.params.schema has no list kind yet: a written list is refused")
 def test_step_list_written_in_the_file(tmp_path):
     from gen.params.project import load_project
     from gen.parts.base import resolve

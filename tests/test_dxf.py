@@ -94,7 +94,7 @@ def test_splines_pass_through_fit_points_and_follow_the_involute(gear, gear_dxf)
     assert 0 < worst < 1e-3  # mm; measured 0.27 µm on m 2, z 20
 
 
-def test_rack_section_is_all_lines(tmp_path):
+def test_rack_section_lines_and_fillet_arcs(tmp_path):
     from gen.parts import rack
 
     model = _model(rack, {"module": 1.5, "teeth": 6, "face_width": 5, "height": 6,
@@ -103,7 +103,12 @@ def test_rack_section_is_all_lines(tmp_path):
     path = str(tmp_path / "r.dxf")
     write_dxf(section, path, "r")
     msp = ezdxf.readfile(path).modelspace()
-    assert Counter(e.dxftype() for e in msp) == {"LINE": len(section.outer.curves)}
+    from gen.geometry.section import Arc, Line
+
+    kinds = Counter("LINE" if isinstance(c, Line) else "ARC" if isinstance(c, Arc) else "SPLINE"
+                    for c in section.outer.curves)
+    assert Counter(e.dxftype() for e in msp) == kinds
+    assert kinds["ARC"] == 2 * 6  # two root fillets per tooth space, ISO 53 (from memory)
     from ezdxf import bbox
 
     box = bbox.extents(msp)

@@ -31,12 +31,20 @@ def test_generated_flank_is_the_analytic_involute(z, x, alpha, profile):
 def test_form_circle_matches_the_cutter_corner():
     # Without undercut the involute starts where the cutter's fillet/flank tangent point
     # generates: r_F² = rb² + (rp sin α − h/sin α)², h = that point's depth below the rolling
-    # line (computed from the generation geometry, independent of the envelope search).
+    # line (computed). Checked on the envelope itself, evaluated afresh on both sides of r_F:
+    # above it the generated flank is the involute, below it the fillet leaves more material.
+    from gen.geometry.generate import psi_exact
+
     sizes, cutter, flank = spur_flank(20, m=2.0)
     a = sizes.alpha_n
     h = -cutter.flank_start_y()
     r_form = math.sqrt(sizes.rb**2 + (sizes.rp * math.sin(a) - h / math.sin(a)) ** 2)
-    assert flank.r_junction == pytest.approx(r_form, abs=1e-6)
+    assert flank.r_junction == pytest.approx(r_form, abs=1e-9)
+    above, below = r_form + 0.01, r_form - 0.01
+    inv = half_thickness_angle(np.array([above, below]), rp=sizes.rp, rb=sizes.rb, s=sizes.s)
+    gen = psi_exact(cutter, sizes.rp, 20, [above, below])
+    assert abs(gen[0] - inv[0]) * above < 1e-9
+    assert (gen[1] - inv[1]) * below > 1e-6
 
 
 def test_undercut_limit_formula():

@@ -184,13 +184,20 @@ def generate_flank(z: int, rp: float, cutter: Cutter, r_tip: float,
         th_l, _ = _envelope(cutter, rp, np.atleast_1d(r), 2.0, 3.0)
         return bool(th_f[0] < th_l[0])
 
-    # junction: below it the fillet sets the boundary (smaller θ), above it the flank
-    lo, hi = r_root + 1e-9, r_tip
-    if fillet_wins(hi):
-        r_j = r_tip  # fillet all the way up (no involute at all)
+    # Junction of trochoidal root and involute. Without undercut it is where the straight
+    # flank's lowest point T generates: its contact lies h_T / sin α_t from the pitch point
+    # along the line of action, so r_F² = r_b² + (r_p sin α_t − h_T / sin α_t)².
+    x_t, y_t = cutter.points(np.array([2.0]))
+    alpha_t = math.atan(math.tan(cutter.alpha_n) * cutter.stretch)
+    along = rp * math.sin(alpha_t) + y_t[0] / math.sin(alpha_t)
+    rb = rp * math.cos(alpha_t)
+    if along >= 0.0:
+        r_j = min(max(math.hypot(rb, along), r_root), r_tip)
     else:
-        if not fillet_wins(lo):
-            r_j = r_root
+        # undercut: the fillet envelope crosses the involute; bisect on which one wins
+        lo, hi = r_root + 1e-9, r_tip
+        if fillet_wins(hi):
+            r_j = r_tip  # fillet all the way up (no involute at all)
         else:
             for _ in range(60):
                 mid = 0.5 * (lo + hi)

@@ -47,6 +47,7 @@ class Key:
         unit = f" {self.unit}" if self.unit else ""
         if not lo and not hi:
             return {"int": "a whole number", "float": "a finite number", "angle": "an angle in degrees",
+                "list": "a list of numbers",
                     "bool": "true or false", "str": "text", "map": "a mapping"}.get(self.kind, self.kind)
         return f"{lo}{self.name}{hi}{unit}"
 
@@ -76,6 +77,12 @@ def check_value(key: Key, value, where: Where, path: str | None = None):
         if not isinstance(value, dict):
             raise where.error(name, "must be a mapping", value, key.range_text())
         return check_mapping(value, key.sub, where, prefix=name + ".")
+    if k == "list":  # a list of numbers, each within lo … hi
+        if not isinstance(value, list) or not value:
+            raise where.error(name, "must be a list of numbers, e.g. [0, 0.1]", value,
+                              key.range_text())
+        item = Key(key.name, "float", None, lo=key.lo, hi=key.hi, unit=key.unit)
+        return [check_value(item, v, where, f"{name}[{i}]") for i, v in enumerate(value)]
     if k == "bool":
         if not isinstance(value, bool):
             raise where.error(name, "must be true or false", value)
