@@ -43,7 +43,7 @@ DIFF_KEYS = (
     Key("face_width", "float", REQUIRED, lo=0, hi=1000, lo_open=True, unit="mm"),
     K.PRESSURE_ANGLE, K.PROFILE,
     Key("profile_shift", "float", 0.0, lo=-0.6, hi=0.6, doc="inputs x, outputs −x"),
-    K.BACKLASH_ALLOWANCE,
+    K.BACKLASH_ALLOWANCE, K.MATERIAL,
     Key("input_bore", "float", 0.0, lo=0, hi=1000, unit="mm"),
     Key("output_bore", "float", 0.0, lo=0, hi=1000, unit="mm"),
     Key("carrier_clearance", "float", 0.5, lo=0, hi=50, unit="mm",
@@ -73,7 +73,8 @@ class Assembly:
 
 def _gear_values(values, which: str) -> dict:
     return {"bore": values[f"{which}_bore"], "chord_tolerance": values["chord_tolerance"],
-            "module": values["module"], "face_width": values["face_width"]}
+            "module": values["module"], "face_width": values["face_width"],
+            "material": values["material"]}
 
 
 def build_assembly(entry) -> tuple[Assembly, dict]:

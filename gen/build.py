@@ -85,7 +85,12 @@ def export_part(model, out: str, formats) -> PartOutcome:
         if has_errors(outcome.findings):
             outcome.ok, outcome.status = False, "failed"
             return outcome
-        outcome.mass = {"volume": float(mesh.volume)}
+        from gen.mesh.mass import mass_properties
+        from gen.validate.strength import material
+
+        mat = material(model.values.get("material") or "PLA")
+        outcome.mass = {"material": mat.name, "density_g_cm3": mat.density,
+                        **mass_properties(mesh, mat.density)}
         for fmt in formats:
             suffix, _kernel = FORMATS[fmt]
             path = os.path.join(out, model.name + suffix)
@@ -100,6 +105,16 @@ def export_part(model, out: str, formats) -> PartOutcome:
                     raise PitchlineError(f"STEP volume {vol:.3f} mm³ and mesh volume "
                                          f"{mesh.volume:.3f} mm³ disagree by more than 1 %")
                 size = write_step(solid, path, model.name)
+            elif fmt == "3mf":
+                from gen.export.threemf import write_3mf
+                size = write_3mf([(model.name, mesh)], path)
+            elif fmt == "dxf":
+                if model.profile_section is None:
+                    outcome.findings.append(Finding("info", "no-profile", "no flat profile to "
+                                                    "cut: DXF skipped", model.name, ""))
+                    continue
+                from gen.export.dxf import write_dxf
+                size = write_dxf(model.profile_section, path, model.name)
             else:  # pragma: no cover - FORMATS and this table are kept in step
                 raise PitchlineError(f"no writer for format {fmt}")
             outcome.files[fmt] = _file_info(path, size)
@@ -178,7 +193,7 @@ class BuildResult:
 
 
 def build(result, out: str, formats, *, force: bool = False, jobs: int = 1,
-          progress: Progress | None = None) -> BuildResult:
+          progress: Progress | None = None, plate=(220.0, 220.0)) -> BuildResult:
     """Export every model of a passing CheckResult into ``out``."""
     t0 = time.perf_counter()
     os.makedirs(out, exist_ok=True)
@@ -213,9 +228,39 @@ def build(result, out: str, formats, *, force: bool = False, jobs: int = 1,
             report.outcomes[name] = oc
             progress.step(oc)
     _assemblies(result, out, formats, report, prev)
+    if "3mf" in formats and plate:
+        _plate(result, out, report, plate)
     write_manifest(out, result, report.outcomes, formats)
     report.seconds = time.perf_counter() - t0
     return report
+
+
+def _plate(result, out, report, plate) -> None:
+    """``plate.3mf``: every built part's mesh laid flat and packed on one build plate."""
+    import trimesh
+
+    from gen.export.threemf import write_3mf
+    from gen.mesh.plate import arrange
+
+    items = []
+    for name in sorted(result.models):
+        oc = report.outcomes.get(name)
+        if oc is None or not oc.ok or "3mf" not in oc.files:
+            continue
+        # the part's own 3MF holds exactly its mesh
+        mesh = trimesh.load(os.path.join(out, oc.files["3mf"]["path"]), force="mesh")
+        items.append((name, mesh))
+    key = "plate"
+    oc = PartOutcome(key, True)
+    try:
+        placed = arrange(items, plate=plate)
+        path = os.path.join(out, "plate.3mf")
+        size = write_3mf([(p.name, p.mesh) for p in placed], path)
+        oc.files["3mf"] = _file_info(path, size)
+    except PitchlineError as exc:
+        oc.ok, oc.status = False, "failed"
+        oc.findings.append(Finding(ERROR, "plate", str(exc), "plate", ""))
+    report.plate = oc
 
 
 def _assemblies(result, out, formats, report, prev) -> None:
@@ -264,6 +309,11 @@ def write_manifest(out: str, result, outcomes: dict, formats=()) -> str:
             "status": oc.status if oc else "failed",
             **({"mass_properties": oc.mass} if oc and oc.mass else {}),
         }
+        if model.rating is not None:
+            r = model.rating()
+            parts[name]["sizes"] = dict(model.sizes, lewis_form_factor=r["lewis_form_factor"],
+                                        rated_torque=r["rated_torque"])
+            parts[name]["rating"] = {k: r[k] for k in ("material", "safety_factor", "rpm")}
     for asm in result.assemblies:
         key = f"assembly:{asm.name}"
         oc = outcomes.get(key)

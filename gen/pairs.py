@@ -85,8 +85,46 @@ def check_pair(label, names, a, b, entry):
     except GeometryError as exc:
         return [Finding(ERROR, "no-mesh", str(exc), label, "", key="center_distance")], {}, None
     found = pair_findings(pr, sw, subject=label, print_clearance=clearance)
+    torque, e3 = _number(entry, "torque")
+    speed, e4 = _number(entry, "speed", lo=-1e-12)
+    found += [e for e in (e3, e4) if e]
+    if torque is not None:
+        found += strength_of_pair(label, names, a, b, torque, speed or 0.0)
     return found, pair_numbers(pr, sw), (a.outline, b.outline, pr, sw,
                                         tb.get("rack_sizes") if tb["role"] == "rack" else None)
+
+
+def strength_of_pair(label, names, a, b, torque: float, rpm: float) -> list:
+    """Lewis check of both members under the declared torque (N·m) and speed (rpm) of the
+    part named first in the mesh; the mate carries it scaled by the tooth ratio."""
+    from gen.geometry.basic_rack import basic_rack
+    from gen.validate.strength import loaded_rack, strength_findings
+
+    first = a if a.name == names[0] else b
+    z1 = first.tooth["sizes"].z if first.tooth["role"] == "gear" else None
+    out = []
+    for m in (a, b):
+        t = m.tooth
+        if t["role"] == "rack":
+            pin = a if m is b else b
+            rp = pin.tooth["sizes"].rp
+            force = torque / (rp / 1000.0)  # the pinion carries the torque
+            v = rp / 1000.0 * rpm * 2.0 * 3.141592653589793 / 60.0
+            rack = basic_rack(m.values["profile"]).with_alpha(m.values["pressure_angle"])
+            gear = loaded_rack(t["rack_sizes"].mn, rack, t["face_width"], m.name,
+                               thinning=m.values["backlash_allowance"])
+            out += [replace(f, message=f"{m.name}: {f.message}") for f in
+                    strength_findings(gear, m.values["material"], force=force, speed=v,
+                                      safety_factor=m.values["safety_factor"], subject=label)]
+            continue
+        r = m.rating()
+        z = t["sizes"].z
+        ratio = 1.0 if m is first or z1 is None else z / z1
+        out += [replace(f, message=f"{m.name}: {f.message}") for f in
+                strength_findings(r["loaded"], m.values["material"], torque=torque * ratio,
+                                  rpm=rpm / ratio, safety_factor=m.values["safety_factor"],
+                                  subject=label)]
+    return out
 
 
 def check_meshes(result) -> None:

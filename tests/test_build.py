@@ -17,6 +17,7 @@ from gen.geometry.cylindrical import gear_sizes
 from gen.mesh.prism import slice_polygons
 from gen.validate import measure
 
+INDEXER = os.path.join(PARAMS, "tray_indexer.yaml")
 RACK = """parts:
   test_rack:
     kind: rack
@@ -40,7 +41,7 @@ def _sha(path):
 
 def test_manifest_lists_every_part(demo):
     man = json.load(open(demo / "manifest.json"))
-    assert man["units"] == {"length": "mm", "angle": "deg"}
+    assert man["units"] == {"length": "mm", "angle": "deg", "volume": "mm3"}
     for name, part in man["parts"].items():
         assert part["status"] == "built"
         for fmt, info in part["files"].items():
@@ -57,10 +58,10 @@ def test_no_partial_files_left(demo):
 
 
 def test_pinion_stl_measures_iso21771(demo):
-    # tray pinion: m 2, z 12, x +0.4, thinning 0.1 (demo); sizes per ISO 21771 (computed)
+    # tray pinion: m 2, z 12, x +0.4, thinning 0.12 (demo values); sizes per ISO 21771 (computed)
     mesh = trimesh.load(demo / "tray_pinion.stl")
     assert mesh.is_watertight and mesh.volume > 0
-    sizes = gear_sizes(12, 2.0, basic_rack("A"), x=0.4, thinning=0.1)
+    sizes = gear_sizes(12, 2.0, basic_rack("A"), x=0.4, thinning=0.12)
     lo, hi = mesh.bounds
     assert lo[2] == pytest.approx(0.0, abs=1e-9) and hi[2] == pytest.approx(10.0, abs=1e-9)
     # centred on the axis: tip circle extent within the chordal tolerance (0.01 mm)
@@ -91,9 +92,11 @@ def test_step_reimports_as_one_valid_solid(demo):
 
 
 def test_rebuild_gives_identical_bytes(demo, tmp_path):
-    assert main(["build", PARAMS, "--out", str(tmp_path)]) == 0
-    for f in os.listdir(demo):
-        if f.endswith((".stl", ".step", ".json")):
+    # same input, fresh folder, same process: byte-identical files (STEP time stamps and
+    # product counters are normalised)
+    assert main(["build", INDEXER, "--out", str(tmp_path)]) == 0
+    for f in os.listdir(tmp_path):
+        if f.endswith((".stl", ".step")):
             assert _sha(demo / f) == _sha(tmp_path / f), f
 
 
@@ -128,7 +131,7 @@ def test_one_failing_export_leaves_the_others(tmp_path, monkeypatch, capsys):
         return real(shape, path, name)
 
     monkeypatch.setattr(step, "write_step", flaky)
-    assert main(["build", PARAMS, "--out", str(tmp_path)]) == 1
+    assert main(["build", INDEXER, "--out", str(tmp_path)]) == 1
     files = os.listdir(tmp_path)
     assert "tray_pinion.step" in files and "tray_pinion.stl" in files
     assert "tray_wheel.step" not in files

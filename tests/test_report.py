@@ -141,7 +141,8 @@ def test_write_report(tmp_path):
     assert out.read_text(encoding="utf-8").startswith("<!DOCTYPE html>")
     assert [p.name for p in tmp_path.iterdir()] == ["mesh.html"]
     with pytest.raises(ExportError):
-        write_report(str(tmp_path / "missing" / "x.html"), _entries()[:1])
+        # a file stands where the folder should be: the write fails cleanly
+        write_report(str(tmp_path / "mesh.html" / "x.html"), _entries()[:1])
 
 
 def test_rows_carry_the_numbers():

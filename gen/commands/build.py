@@ -20,6 +20,8 @@ def register(sub):
     p.add_argument("--jobs", type=int, default=1, metavar="N",
                    help="export parts in N parallel processes (default: 1)")
     p.add_argument("--force", action="store_true", help="rebuild parts that are up to date")
+    p.add_argument("--plate", default="220x220", metavar="WxD",
+                   help="build plate for plate.3mf when 3mf is a format (mm, default 220x220)")
     p.set_defaults(func=run)
 
 
@@ -42,6 +44,11 @@ def run(args) -> int:
         formats = parse_formats(args.format)
         if args.jobs < 1:
             raise ValueError("--jobs takes a whole number ≥ 1")
+        try:
+            plate = tuple(float(v) for v in args.plate.lower().split("x"))
+            assert len(plate) == 2 and all(v > 0 for v in plate)
+        except (ValueError, AssertionError):
+            raise ValueError(f"--plate takes width x depth in mm, like 220x220 (got {args.plate!r})")
     except ValueError as exc:
         print(f"pitchline build: {exc}", file=sys.stderr)
         return 2
@@ -52,7 +59,10 @@ def run(args) -> int:
         print("nothing was written", file=sys.stderr)
         return 1
     report = build(result, args.out, formats, force=args.force, jobs=args.jobs,
-                   progress=Progress(len(result.models)))
+                   progress=Progress(len(result.models)), plate=plate)
+    plate_oc = getattr(report, "plate", None)
+    if plate_oc is not None and not plate_oc.ok:
+        print_findings(plate_oc.findings)
     for oc in report.outcomes.values():
         if not oc.ok:
             print_findings(oc.findings)

@@ -13,8 +13,11 @@ os.umask(_UMASK)
 
 def write_atomic(path: str, data: bytes) -> None:
     folder = os.path.dirname(os.path.abspath(path))
-    os.makedirs(folder, exist_ok=True)
-    fd, tmp = tempfile.mkstemp(prefix=".partial-", dir=folder)
+    try:
+        os.makedirs(folder, exist_ok=True)
+        fd, tmp = tempfile.mkstemp(prefix=".partial-", dir=folder)
+    except OSError as exc:
+        raise ExportError(f"cannot write {path}: {exc.strerror or exc}") from None
     try:
         with os.fdopen(fd, "wb") as fh:
             fh.write(data)

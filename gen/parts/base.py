@@ -45,6 +45,8 @@ class PartModel:
     mesh_check_z: float | None = None   # slice height for mesh_check (default: mid face)
     pulley: dict = field(default_factory=dict)  # belt data for drive checks
     bevel: dict = field(default_factory=dict)   # bevel sizes and flank
+    profile_section: object = None  # the toothed 2-D Section (DXF), when the part has one
+    rating: object = None        # callable → strength rating dict (gears)
     mesh_fn: object = None       # builds the trimesh when ``body`` is None
     solid_fn: object = None      # builds the CAD solid when ``body`` is None
 

@@ -25,7 +25,7 @@ COMMON = (
     Key("face_width", "float", REQUIRED, lo=0, hi=2000, lo_open=True, unit="mm",
         doc="along the pitch-cone generator; at most min(Re/3, 10 m)"),
     Key("profile_shift", "float", 0.0, lo=-0.6, hi=0.6, doc="x; the mating gear takes −x"),
-    K.BACKLASH_ALLOWANCE, BORE,
+    K.BACKLASH_ALLOWANCE, BORE, K.MATERIAL,
     Key("mounting_distance", "float", None, lo=0, hi=5000, lo_open=True, unit="mm",
         doc="cone apex to back face (default: derived from the blank)"),
     K.FORCE, K.CHORD,

@@ -31,3 +31,13 @@ HUB = Key("hub", "map", None, sub=(
 FORCE = Key("force", "bool", False, doc="build despite an unusual tooth count")
 CHORD = Key("chord_tolerance", "float", 0.01, lo=0.0005, hi=0.5, unit="mm",
             doc="largest deviation of mesh facets from the exact surface")
+
+# printing material (density for mass, allowable stress for the strength estimate)
+from gen.validate.strength import MATERIALS  # noqa: E402  (numpy-only table)
+
+MATERIAL = Key("material", "enum", "PLA", choices=tuple(MATERIALS),
+               doc="print material: density for mass, allowable stress for the rating")
+SAFETY_FACTOR = Key("safety_factor", "float", 2.0, lo=1.0, hi=20.0,
+                    doc="divides the allowable tooth stress in the rated torque")
+RATING_SPEED = Key("rpm", "float", 60.0, lo=0, hi=100000, unit="rpm",
+                   doc="speed at which the rated torque is stated")

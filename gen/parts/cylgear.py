@@ -23,7 +23,8 @@ from gen.validate.findings import ERROR, Finding
 from gen.validate.gear_checks import compare_sizes, gear_findings, measured_sizes
 
 GEAR_KEYS = (K.MODULE, K.TEETH, K.PRESSURE_ANGLE, K.PROFILE, K.PROFILE_SHIFT, K.FACE_WIDTH,
-             K.BACKLASH_ALLOWANCE, K.TIP_SHORTENING, K.BORE, K.HUB, K.FORCE, K.CHORD)
+             K.BACKLASH_ALLOWANCE, K.TIP_SHORTENING, K.BORE, K.HUB, K.MATERIAL,
+             K.SAFETY_FACTOR, K.RATING_SPEED, K.FORCE, K.CHORD)
 
 
 def bore_of(values) -> Bore | None:
@@ -81,7 +82,21 @@ def make_gear(name: str, values: dict, where, *, kind: str, beta: float = 0.0,
                                     "leaves no wall around the bore", name, "geometry", key="hub"))
         solids.append(Prism(Section(circle(hub["diameter"] / 2.0), holes), b, b + hub["length"]))
     body = Body(tuple(solids))
-    return _model(name, kind, values, body, sizes, findings, poly, flank, beta)
+    model = _model(name, kind, values, body, sizes, findings, poly, flank, beta)
+    model.profile_section = solids[0].section
+    model.rating = lambda: gear_rating(name, values, sizes, rack)
+    return model
+
+
+def gear_rating(name, values, sizes, rack) -> dict:
+    """Lewis form factor measured on the generated tooth and the rated torque (N·m)."""
+    from gen.validate.strength import loaded_gear, rated_torque
+
+    gear = loaded_gear(sizes, rack, values["face_width"], name)
+    torque = rated_torque(gear, values["material"], values["safety_factor"], values["rpm"])
+    return {"lewis_form_factor": gear.form_factor, "rated_torque": torque,
+            "material": values["material"], "safety_factor": values["safety_factor"],
+            "rpm": values["rpm"], "loaded": gear}
 
 
 def _model(name, kind, values, body, sizes, findings, poly, flank, beta):

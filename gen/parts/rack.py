@@ -22,7 +22,7 @@ from gen.validate.rack_checks import rack_compare, rack_measure
 
 KIND = "rack"
 RACK_KEYS = (K.MODULE, K.PRESSURE_ANGLE, K.PROFILE, K.FACE_WIDTH, K.BACKLASH_ALLOWANCE,
-             K.FORCE, K.CHORD,
+             K.MATERIAL, K.SAFETY_FACTOR, K.FORCE, K.CHORD,
              Key("length", "float", None, lo=0, hi=5000, lo_open=True, unit="mm"),
              Key("teeth", "int", None, lo=1, hi=5000),
              Key("height", "float", REQUIRED, lo=0, hi=1000, lo_open=True, unit="mm",
@@ -76,6 +76,7 @@ def make_rack(name, values, where, *, kind, beta=0.0, shear_sign=0.0, chevron=Fa
         return rack_compare(name, got, sizes, tol=2 * chord + 2e-3, where=f"mesh slice z={z:g}")
 
     model.mesh_check = mesh_check if not chevron and not shear else None
+    model.profile_section = Section(loop)
     return model
 
 

@@ -37,7 +37,7 @@ KEYS = (
     Key("flange_thickness", "float", 1.0, lo=0, hi=20, lo_open=True, unit="mm"),
     Key("fit_allowance", "float", 0.0, lo=0, hi=0.5, unit="mm",
         doc="groove enlargement per flank for printing"),
-    K.BORE, K.HUB,
+    K.BORE, K.HUB, K.MATERIAL,
     Key("set_screw", "map", None, sub=(
         Key("size", "enum", "M3", choices=tuple(SET_SCREW_DRILL)),
         Key("count", "int", 1, lo=1, hi=2),
@@ -140,4 +140,5 @@ def make(name, values, where):
 
     model.mesh_check = mesh_check
     model.mesh_check_z = z_mid
+    model.profile_section = Section(loop, holes)
     return model
