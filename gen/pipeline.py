@@ -43,11 +43,18 @@ def _locate(f: Finding, raw) -> Finding:
 
 def check(paths) -> CheckResult:
     """Load, resolve and validate every part and mesh; never imports the CAD kernel."""
+    from gen.params.fits import collect_fits
+
     project = load_project(paths)
     result = CheckResult(project=project)
+    try:
+        fits = collect_fits(project.entries.get("fits", []))
+    except ParamError as exc:
+        result.findings.append(_param_finding(exc))
+        return result
     for name, raw in project.parts.items():
         try:
-            model = resolve(raw)
+            model = resolve(raw, fits)
         except ParamError as exc:
             result.findings.append(_param_finding(exc))
             continue

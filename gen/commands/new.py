@@ -65,6 +65,7 @@ def run(args) -> int:
     from gen.parts.base import KINDS
     from gen.params.schema import suggest
 
+    args.kind = {"coupon": "fit_coupon"}.get(args.kind, args.kind)
     if args.kind not in KINDS:
         print(f"pitchline new: unknown kind '{args.kind}'{suggest(args.kind, KINDS)}; "
               f"allowed: {', '.join(sorted(KINDS))}", file=sys.stderr)

@@ -58,11 +58,24 @@ def kind_module(kind: str, where: Where):
     return importlib.import_module(f"gen.parts.{KINDS[kind]}")
 
 
-def resolve(raw: RawPart) -> PartModel:
-    """Check a raw part's keys against its kind and build its model."""
+def resolve(raw: RawPart, fits: dict | None = None) -> PartModel:
+    """Check a raw part's keys against its kind and build its model.
+
+    ``fits`` maps fit-profile names to their allowances; a part's ``fit: NAME`` is replaced by
+    that dict before the kind sees it.
+    """
     where = Where(raw.file, raw.name, raw.line)
     mod = kind_module(raw.kind, where)
     values = check_mapping(raw.values, mod.KEYS, where)
+    if values.get("fit") is not None:
+        if fits is None:
+            from gen.params.fits import collect_fits
+            fits = collect_fits([])
+        name = values["fit"]
+        if name not in fits:
+            raise where.error("fit", f"unknown fit profile '{name}'{suggest(name, fits)}",
+                              allowed=", ".join(sorted(fits)))
+        values["fit"] = fits[name]
     model = mod.make(raw.name, values, where)
     model.file, model.train = raw.file, raw.train
     return model

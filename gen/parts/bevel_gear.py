@@ -25,7 +25,7 @@ COMMON = (
     Key("face_width", "float", REQUIRED, lo=0, hi=2000, lo_open=True, unit="mm",
         doc="along the pitch-cone generator; at most min(Re/3, 10 m)"),
     Key("profile_shift", "float", 0.0, lo=-0.6, hi=0.6, doc="x; the mating gear takes −x"),
-    K.BACKLASH_ALLOWANCE, BORE, K.MATERIAL,
+    K.BACKLASH_ALLOWANCE, BORE, K.MATERIAL, K.FIT,
     Key("mounting_distance", "float", None, lo=0, hi=5000, lo_open=True, unit="mm",
         doc="cone apex to back face (default: derived from the blank)"),
     K.FORCE, K.CHORD,
@@ -42,7 +42,8 @@ def make_bevel(name, values, where, *, kind, mating_teeth, shaft_angle) -> PartM
     try:
         sizes = bevel_sizes(values["teeth"], mating_teeth, values["module"], shaft_angle,
                             values["face_width"], rack, values["profile_shift"],
-                            thinning=values["backlash_allowance"],
+                            thinning=values["backlash_allowance"]
+                            + 2.0 * K.fit_of(values)["flank_clearance"],
                             mounting_distance=values["mounting_distance"])
         flank = virtual_flank(sizes)
     except GeometryError as exc:
@@ -58,6 +59,8 @@ def bevel_model(name, kind, values, sizes, flank) -> PartModel:
     findings = [Finding(f.severity, f.code, f.message, name, f.source, key=f.key or "teeth")
                 for f in bevel_findings(sizes, flank, subject=name)]
     bore = values.get("bore") or 0.0
+    if bore:
+        bore += K.fit_of(values)["hole_allowance"]
     from gen.geometry.bevel import blank_profile
 
     try:

@@ -41,3 +41,13 @@ SAFETY_FACTOR = Key("safety_factor", "float", 2.0, lo=1.0, hi=20.0,
                     doc="divides the allowable tooth stress in the rated torque")
 RATING_SPEED = Key("rpm", "float", 60.0, lo=0, hi=100000, unit="rpm",
                    doc="speed at which the rated torque is stated")
+FIT = Key("fit", "str", None, doc="fit profile name: none, fdm-0.4, fdm-0.4-petg, fdm-0.6, resin, "
+                                "or one from a fits: section")
+NO_FIT = {"name": "none", "flank_clearance": 0.0, "hole_allowance": 0.0, "outline_offset": 0.0,
+          "min_feature": 0.0, "source": "built-in"}
+
+
+def fit_of(values) -> dict:
+    """The resolved fit profile of a part (no allowances when none is named)."""
+    f = values.get("fit")
+    return f if isinstance(f, dict) else NO_FIT

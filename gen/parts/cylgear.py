@@ -19,12 +19,12 @@ from gen.geometry.generate import generate_flank
 from gen.geometry.section import Section, circle
 from gen.parts.base import PartModel
 from gen.parts import common_keys as K
-from gen.validate.findings import ERROR, Finding
+from gen.validate.findings import ERROR, WARNING, Finding
 from gen.validate.gear_checks import compare_sizes, gear_findings, measured_sizes
 
 GEAR_KEYS = (K.MODULE, K.TEETH, K.PRESSURE_ANGLE, K.PROFILE, K.PROFILE_SHIFT, K.FACE_WIDTH,
              K.BACKLASH_ALLOWANCE, K.TIP_SHORTENING, K.BORE, K.HUB, K.MATERIAL,
-             K.SAFETY_FACTOR, K.RATING_SPEED, K.FORCE, K.CHORD)
+             K.SAFETY_FACTOR, K.RATING_SPEED, K.FIT, K.FORCE, K.CHORD)
 
 
 def bore_of(values) -> Bore | None:
@@ -32,7 +32,7 @@ def bore_of(values) -> Bore | None:
     if not b:
         return None
     return Bore(diameter=b["diameter"], flat=b["flat"], keyway=b["keyway"],
-                allowance=values.get("hole_allowance", 0.0) or 0.0)
+                allowance=K.fit_of(values)["hole_allowance"])
 
 
 def make_gear(name: str, values: dict, where, *, kind: str, beta: float = 0.0,
@@ -43,9 +43,12 @@ def make_gear(name: str, values: dict, where, *, kind: str, beta: float = 0.0,
     """
     rack = basic_rack(values["profile"]).with_alpha(values["pressure_angle"])
     m, z, b = values["module"], values["teeth"], values["face_width"]
+    fit = K.fit_of(values)
+    # the fit thins every flank and pulls the tip in; the formulas below include both, so
+    # the measured profile is checked against the compensated sizes
     sizes = gear_sizes(z, m, rack, x=values["profile_shift"], beta=beta,
-                       thinning=values["backlash_allowance"],
-                       tip_shortening=values["tip_shortening"])
+                       thinning=values["backlash_allowance"] + 2.0 * fit["flank_clearance"],
+                       tip_shortening=values["tip_shortening"] + fit["outline_offset"] / m)
     findings = []
     bore = bore_of(values)
     try:
@@ -70,6 +73,7 @@ def make_gear(name: str, values: dict, where, *, kind: str, beta: float = 0.0,
     findings += gear_findings(name, sizes, cutter, flank, poly, force=values["force"],
                               addendum=rack.addendum, face_width=b, bore_radius=bore_r,
                               rack_root=rack.root_radius * m)
+    findings += min_feature_findings(name, fit, flank, sizes, bore_r)
     twist = twist_sign * math.tan(beta) / sizes.rp if beta else 0.0
     solids = [Prism(Section(loop, holes), 0.0, b, twist=twist, chevron=chevron)]
     hub = values.get("hub")
@@ -86,6 +90,24 @@ def make_gear(name: str, values: dict, where, *, kind: str, beta: float = 0.0,
     model.profile_section = solids[0].section
     model.rating = lambda: gear_rating(name, values, sizes, rack)
     return model
+
+
+def min_feature_findings(name, fit, flank, sizes, bore_r) -> list:
+    """Tip lands and rims thinner than the fit profile's smallest printable feature."""
+    out = []
+    mf = fit["min_feature"]
+    if not mf:
+        return out
+    tip = 2.0 * flank.r_tip * float(flank.psi[-1])
+    if 0 < tip < mf:
+        out.append(Finding(WARNING, "below-min-feature", f"tip land {tip:.2f} mm is under the "
+                           f"{mf:g} mm smallest feature of fit '{fit['name']}'", name,
+                           "fit profile", key="fit"))
+    if bore_r is not None and 0 < sizes.rf - bore_r < mf:
+        out.append(Finding(WARNING, "below-min-feature", f"rim {sizes.rf - bore_r:.2f} mm is "
+                           f"under the {mf:g} mm smallest feature of fit '{fit['name']}'", name,
+                           "fit profile", key="fit"))
+    return out
 
 
 def gear_rating(name, values, sizes, rack) -> dict:
@@ -112,6 +134,10 @@ def _model(name, kind, values, body, sizes, findings, poly, flank, beta):
         "base_diameter": sizes.db,
         "tooth_thickness": sizes.s,
     }
+    fit = K.fit_of(values)
+    if fit["name"] != "none":
+        manifest["fit"] = {k: fit[k] for k in ("name", "flank_clearance", "hole_allowance",
+                                               "outline_offset", "min_feature")}
     if beta:
         manifest.update(helix_angle=math.degrees(beta), transverse_module=sizes.mt,
                         transverse_pressure_angle=math.degrees(sizes.alpha_t))

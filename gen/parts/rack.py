@@ -22,7 +22,7 @@ from gen.validate.rack_checks import rack_compare, rack_measure
 
 KIND = "rack"
 RACK_KEYS = (K.MODULE, K.PRESSURE_ANGLE, K.PROFILE, K.FACE_WIDTH, K.BACKLASH_ALLOWANCE,
-             K.MATERIAL, K.SAFETY_FACTOR, K.FORCE, K.CHORD,
+             K.MATERIAL, K.SAFETY_FACTOR, K.FIT, K.FORCE, K.CHORD,
              Key("length", "float", None, lo=0, hi=5000, lo_open=True, unit="mm"),
              Key("teeth", "int", None, lo=1, hi=5000),
              Key("height", "float", REQUIRED, lo=0, hi=1000, lo_open=True, unit="mm",
@@ -40,7 +40,9 @@ def make_rack(name, values, where, *, kind, beta=0.0, shear_sign=0.0, chevron=Fa
     m = values["module"]
     try:
         sizes = rack_sizes(m, rack, height=values["height"], length=values["length"],
-                           teeth=values["teeth"], beta=beta, thinning=values["backlash_allowance"])
+                           teeth=values["teeth"], beta=beta,
+                           thinning=values["backlash_allowance"]
+                           + 2.0 * K.fit_of(values)["flank_clearance"])
         loop = rack_loop(sizes, rack)
     except GeometryError as exc:
         key = "height" if "height" in str(exc) else ("length" if values["length"] else "teeth")

@@ -37,7 +37,7 @@ KEYS = (
     Key("flange_thickness", "float", 1.0, lo=0, hi=20, lo_open=True, unit="mm"),
     Key("fit_allowance", "float", 0.0, lo=0, hi=0.5, unit="mm",
         doc="groove enlargement per flank for printing"),
-    K.BORE, K.HUB, K.MATERIAL,
+    K.BORE, K.HUB, K.MATERIAL, K.FIT,
     Key("set_screw", "map", None, sub=(
         Key("size", "enum", "M3", choices=tuple(SET_SCREW_DRILL)),
         Key("count", "int", 1, lo=1, hi=2),
@@ -49,6 +49,7 @@ EXAMPLE = {"profile": "curv2", "teeth": 20, "belt_width": 6, "bore": 5,
 
 
 def make(name, values, where):
+    values = dict(values, fit_allowance=values["fit_allowance"] + K.fit_of(values)["flank_clearance"])
     try:
         prof = lookup_profile(values["profile"])
         sizes = pulley_sizes(prof, values["teeth"], values["fit_allowance"])
