@@ -25,9 +25,10 @@ T = time.perf_counter
 
 def _imports():
     t = T()
+    import manifold3d  # noqa: F401
     import numpy  # noqa: F401
     import trimesh  # noqa: F401
-    import manifold3d  # noqa: F401
+
     t_light = T() - t
     import cadquery  # noqa: F401
     from OCP.Message import Message, Message_Gravity

@@ -94,7 +94,13 @@ def test_herringbone_gear(gear20, tmp_path):
     straight = prism_solid(Prism(sec, 0.0, 20.0))
     # Cavalieri (computed): equal volumes, up to the integration noise (~1e-5 relative)
     assert precise_volume(s) == pytest.approx(precise_volume(straight), rel=2e-5)
-    # the lateral faces follow the helicoid: S(u, z) = R(θ(z) − θ(z_a)) S(u, z_a)
+    worst, checked = helicoid_error(s, pr, min_radius=10.0)
+    assert checked == 2 * 6 * 20  # both halves of every flank, tip and root face
+    assert worst <= HELIX_FIT
+
+
+def helicoid_error(s, pr: Prism, min_radius: float):
+    """Largest |S(u, z) − R(θ(z) − θ(z_a)) S(u, z_a)| over the B-spline lateral faces."""
     from OCP.BRep import BRep_Tool
 
     worst, checked = 0.0, 0
@@ -104,19 +110,37 @@ def test_herringbone_gear(gear20, tmp_path):
         surf = BRep_Tool.Surface_s(f.wrapped)
         u0, u1, za, zb = surf.Bounds()
         mid = surf.Value(0.5 * (u0 + u1), 0.5 * (za + zb))
-        if math.hypot(mid.X(), mid.Y()) < 10.0:
-            continue  # the bore's two half-cylinders stay straight
+        if math.hypot(mid.X(), mid.Y()) < min_radius:
+            continue  # straight faces (bores) do not turn
         for u in np.linspace(u0, u1, 5):
             p0 = surf.Value(u, za)
-            for z in np.linspace(za, zb, 7):
+            for z in np.linspace(za, zb, 41):
                 th = float(pr.motion(z)[0] - pr.motion(za)[0])
                 c, sn = math.cos(th), math.sin(th)
                 p = surf.Value(u, z)
                 want = (c * p0.X() - sn * p0.Y(), sn * p0.X() + c * p0.Y(), z)
                 worst = max(worst, math.dist((p.X(), p.Y(), p.Z()), want))
         checked += 1
-    assert checked == 2 * 6 * 20  # both halves of every flank, tip and root face
-    assert worst <= HELIX_FIT
+    return worst, checked
+
+
+def test_long_twist_needs_several_spans():
+    # a 20 mm square turned by 3 rad over 60 mm: the v-direction fit needs many spans
+    h = 10.0
+    sq = Loop(tuple(Line(p, q) for p, q in [((-h, -h), (h, -h)), ((h, -h), (h, h)),
+                                            ((h, h), (-h, h)), ((-h, h), (-h, -h))]))
+    pr = Prism(Section(sq, (circle(3.0),)), 0.0, 60.0, twist=0.05)
+    s = prism_solid(pr)
+    assert s.isValid() and solid_count(s) == 1
+    worst, checked = helicoid_error(s, pr, min_radius=5.0)
+    assert checked == 4 and worst <= HELIX_FIT
+    from OCP.BRep import BRep_Tool
+    from OCP.GeomAdaptor import GeomAdaptor_Surface
+
+    spans = [GeomAdaptor_Surface(BRep_Tool.Surface_s(f.wrapped)).BSpline().NbVKnots() - 1
+             for f in s.Faces() if f.geomType() == "BSPLINE"]
+    assert max(spans) > 5
+    assert precise_volume(s) == pytest.approx((400.0 - math.pi * 9.0) * 60.0, rel=1e-6)
 
 
 def test_helical_rack(tmp_path):
@@ -129,7 +153,7 @@ def test_helical_rack(tmp_path):
     assert mesh.volume == pytest.approx(s.Volume(), rel=1e-7)  # planar faces; STL is float32
 
 
-def test_herringbone_rack_and_keyway_boolean(gear20):
+def test_herringbone_rack_and_boolean_fallbacks(gear20):
     rk = basic_rack("A")
     rs = rack_sizes(2.0, rk, height=8.0, teeth=6, beta=BETA)
     rack = Prism(Section(rack_loop(rs, rk)), 0.0, 12.0, shear=rack_shear(BETA), chevron=True)
@@ -142,6 +166,12 @@ def test_herringbone_rack_and_keyway_boolean(gear20):
                                              ((5, 1), (0, 1)), ((0, 1), (0, -1))]))
     body = Body((Prism(Section(loop, (circle(4.0),)), 0.0, 8.0, twist=gear_twist(BETA, sz.rp)),),
                 (Prism(Section(key), -1.0, 9.0),))
+    s = body_solid(body)
+    assert s.isValid() and solid_count(s) == 1
+    assert body_mesh(body).volume == pytest.approx(s.Volume(), rel=2e-3)
+    # a straight hub on the twisted gear's top face: boolean union
+    hub = Prism(Section(circle(9.0), (circle(4.0),)), 8.0, 14.0)
+    body = Body((body.solids[0], hub))
     s = body_solid(body)
     assert s.isValid() and solid_count(s) == 1
     assert body_mesh(body).volume == pytest.approx(s.Volume(), rel=2e-3)

@@ -25,9 +25,11 @@ r_max δ²/8 + ℓ_max δ/4 = tol/2 for δ, then use ⌈Θ/δ⌉ layers per stag
 stage). Shear adds no error (S is linear in z there), so a sheared or straight stage needs
 no inner layer; a chevron always has a layer at the mid-height.
 
-Measured (2 cores; herringbone m_n 2, z 40, 2 × 10 mm, β 30°, 8 mm bore, tol 0.01 mm):
-this route ≈ 0.02 s for the mesh (outline 0.09 s apart); ``Manifold.extrude`` with
-``twist_degrees`` ×2 + union 0.09 s; ``extrude`` + ``warp_batch`` 0.16 s.
+Measured (2 cores; herringbone m_n 2, z 40, 2 × 10 mm, β 30°, 8 mm bore, tol 0.01 mm:
+2,503 vertices per layer, 9 layers per half, 95k triangles; best of 5, outline apart):
+this route 0.015 s; ``Manifold.extrude(n_divisions, twist_degrees)`` ×2 + union 0.31 s;
+``extrude`` with divisions + ``warp_batch`` 0.09 s. All three are watertight and agree in
+volume to 1e-9. The direct route also lets straight holes stay straight in a twisted part.
 """
 
 from __future__ import annotations

@@ -5,13 +5,13 @@ cadquery/OCP are imported lazily, inside the functions. Input is the neutral des
 
 Routes
 ------
-* Straight prism: one planar face with holes (lines, circles, interpolating B-splines)
-  extruded by ``BRepPrimAPI_MakePrism``; a sheared (helical rack) single-stage prism is the
-  same face extruded along the oblique vector (shear·h, 0, h), which is exact.
+* Straight prism: one planar face with holes (lines, circles, fitted B-splines) extruded
+  by ``BRepPrimAPI_MakePrism``; a sheared (helical rack) prism is the same face extruded
+  along the oblique vector (shear·h, 0, h), exact; a sheared chevron is two such prisms.
 * Twisted or chevron prism: the faces are built directly, no sweep and no sewing. Every
-  section curve becomes a NURBS curve (splines by ``GeomAPI_Interpolate``, arcs as rational
-  quadratics, lines of degree 1) with control points Q_i. Its lateral face over one stage
-  [z_a, z_b] is the tensor-product B-spline surface with control points
+  section curve becomes a NURBS curve (splines fitted by ``GeomAPI_PointsToBSpline``, arcs
+  as rational quadratics, lines of degree 1) with control points Q_i. Its lateral face
+  over one stage [z_a, z_b] is the tensor-product B-spline surface with control points
 
       P_ij = Σ_k A_jk · (R(θ(z_k)) Q_i + (s(z_k), 0), z_k),
 
@@ -29,25 +29,32 @@ Routes
 * Other cuts and multi-solid unions fall back to OCC booleans on the result.
 
 Measured (2 cores, cadquery 2.8, OCP 7.9.3; herringbone m_n 2, z 40, 2 × 10 mm, β 30°,
-8 mm bore; after imports; outline generation 0.09 s not included):
+8 mm bore; after imports, outline generation (0.09 s) not included; "earlier" rows are the
+project's earlier measurements, the others one-off runs of this module's code):
 
-=====================================================================  ========  =======
-route                                                                   time      result
-=====================================================================  ========  =======
-polyline profile, twisted extrusion ×2, boolean union (earlier)         195 s     invalid
-B-spline flanks, ``twistExtrude`` ×2, glue fuse, bore, STEP+STL         7.7 s     valid
-same halves sewn (``BRepBuilderAPI_Sewing``)                            2.9 s     valid
-sweep along a V-shaped auxiliary helix, then bore boolean               7.9 s     valid
-direct faces with shared edges (this module), bore in the section       0.16 s    valid
-  + ``BRepCheck_Analyzer``                                              +0.14 s
-  + STEP write (transfer 0.11 s, write 0.18 s, 9 MB)                    +0.29 s
-=====================================================================  ========  =======
+==========================================================  ==========  ================
+route                                                        time (s)    result
+==========================================================  ==========  ================
+polyline profile, twisted extrusion ×2, union (earlier)      195         invalid
+B-spline flanks, twistExtrude ×2, glue fuse, bore (earlier)  7.7 + I/O   valid
+same halves sewn instead of fused (earlier)                  6.0 + I/O   valid
+ThruSections, 4 sections per half: build 0.42, glue fuse     11.7        valid
+  10.5, bore cut 0.80
+direct faces, splines interpolated (GeomAPI_Interpolate):    0.17        valid, STEP 8.2 MB
+  check 0.12, STEP 0.40
+direct faces, splines fitted to 1e-6 mm (kept):              0.10–0.13   valid, STEP 4.3 MB
+  check 0.08–0.11, STEP 0.18–0.25
+==========================================================  ==========  ================
 
-See ``benchmarks/bench_twisted.py`` for the current figures of every case.
+Sheared racks (lines only) take 0.02 s as one oblique prism and 0.03 s as a chevron pair;
+the direct route for the chevron rack took 0.16 s and wrote heavier B-spline faces.
+A keyway that crosses the round bore falls back to a boolean: +0.3 s. Current figures of
+every case: ``benchmarks/bench_twisted.py``.
 """
 
 from __future__ import annotations
 
+import importlib
 import math
 from dataclasses import dataclass
 from functools import lru_cache
@@ -70,25 +77,35 @@ SPLINE_FIT = 1e-6
 
 
 # --------------------------------------------------------------------------- kernel access
+_OCC_NAMES = {
+    "OCP.BRep": ("BRep_Builder",),
+    "OCP.BRepAlgoAPI": ("BRepAlgoAPI_Cut", "BRepAlgoAPI_Fuse"),
+    "OCP.BRepCheck": ("BRepCheck_Analyzer",),
+    "OCP.BRepPrimAPI": ("BRepPrimAPI_MakePrism",),
+    "OCP.Geom": ("Geom_BSplineCurve", "Geom_BSplineSurface", "Geom_Circle", "Geom_Line",
+                 "Geom_Plane"),
+    "OCP.Geom2d": ("Geom2d_BSplineCurve", "Geom2d_Line"),
+    "OCP.GeomAbs": ("GeomAbs_C2",),
+    "OCP.GeomAPI": ("GeomAPI_PointsToBSpline",),
+    "OCP.gp": ("gp_Ax2", "gp_Ax3", "gp_Dir", "gp_Dir2d", "gp_Pnt", "gp_Pnt2d", "gp_Vec"),
+    "OCP.TColgp": ("TColgp_Array1OfPnt", "TColgp_Array1OfPnt2d", "TColgp_Array2OfPnt"),
+    "OCP.TColStd": ("TColStd_Array1OfInteger", "TColStd_Array1OfReal", "TColStd_Array2OfReal"),
+    "OCP.TopAbs": ("TopAbs_FACE", "TopAbs_FORWARD", "TopAbs_REVERSED", "TopAbs_SOLID"),
+    "OCP.TopExp": ("TopExp_Explorer",),
+    "OCP.TopLoc": ("TopLoc_Location",),
+    "OCP.TopoDS": ("TopoDS", "TopoDS_Edge", "TopoDS_Face", "TopoDS_Shell", "TopoDS_Solid",
+                   "TopoDS_Vertex", "TopoDS_Wire"),
+}
+
+
 @lru_cache(maxsize=None)
 def _occ() -> SimpleNamespace:
-    from OCP.BRep import BRep_Builder
-    from OCP.BRepAlgoAPI import BRepAlgoAPI_Cut, BRepAlgoAPI_Fuse
-    from OCP.BRepCheck import BRepCheck_Analyzer
-    from OCP.BRepPrimAPI import BRepPrimAPI_MakePrism
-    from OCP.Geom import Geom_BSplineCurve, Geom_BSplineSurface, Geom_Circle, Geom_Line, Geom_Plane
-    from OCP.Geom2d import Geom2d_BSplineCurve, Geom2d_Line
-    from OCP.GeomAbs import GeomAbs_C2
-    from OCP.GeomAPI import GeomAPI_PointsToBSpline
-    from OCP.gp import gp_Ax2, gp_Ax3, gp_Dir, gp_Dir2d, gp_Pnt, gp_Pnt2d, gp_Vec
-    from OCP.TColgp import TColgp_Array1OfPnt, TColgp_Array1OfPnt2d, TColgp_Array2OfPnt
-    from OCP.TColStd import TColStd_Array1OfInteger, TColStd_Array1OfReal, TColStd_Array2OfReal
-    from OCP.TopAbs import TopAbs_FACE, TopAbs_FORWARD, TopAbs_REVERSED, TopAbs_SOLID
-    from OCP.TopExp import TopExp_Explorer
-    from OCP.TopLoc import TopLoc_Location
-    from OCP.TopoDS import (TopoDS, TopoDS_Edge, TopoDS_Face, TopoDS_Shell, TopoDS_Solid,
-                            TopoDS_Vertex, TopoDS_Wire)
-    return SimpleNamespace(**{k: v for k, v in locals().items()})
+    """The OCP classes used here, imported on first use (the kernel loads in ~0.5–3 s)."""
+    ns = {}
+    for module, names in _OCC_NAMES.items():
+        mod = importlib.import_module(module)
+        ns.update({n: getattr(mod, n) for n in names})
+    return SimpleNamespace(**ns)
 
 
 # --------------------------------------------------------------------------- section curves
@@ -239,24 +256,39 @@ class _VFit:
 
 @lru_cache(maxsize=256)
 def _vfit(za: float, zb: float, turn: float, rho: float) -> _VFit:
-    """Smallest uniform cubic fit whose helix error ρ·e ≤ HELIX_FIT (turn = Δθ over the stage)."""
+    """Smallest uniform cubic fit whose helix error ρ·e ≤ HELIX_FIT (turn = Δθ over the stage).
+
+    The error of cubic interpolation falls as (Θ/spans)⁴, so one trial span count gives an
+    estimate; the estimate is then checked and raised until the measured error fits.
+    """
     if turn == 0.0:
         return _VFit(1, [za, zb], [2, 2], np.array([za, zb]), np.eye(2), 0.0)
-    for spans in range(1, 200):
-        knots = np.linspace(za, zb, spans + 1)
-        full = np.concatenate([[za] * 3, knots, [zb] * 3])
-        n = spans + 3
-        zs = np.array([full[j + 1:j + 4].mean() for j in range(n)])
-        A = np.linalg.inv(_basis(full, 3, zs))
-        th = (zs - za) / (zb - za) * turn
-        P = A @ np.column_stack([np.cos(th), np.sin(th)])
-        ts = np.linspace(za, zb, 24 * spans + 1)
-        E = _basis(full, 3, ts) @ P
-        the = (ts - za) / (zb - za) * turn
-        err = float(np.max(np.hypot(E[:, 0] - np.cos(the), E[:, 1] - np.sin(the))))
-        if err * rho <= HELIX_FIT:
-            return _VFit(3, [float(k) for k in knots], [4] + [1] * (spans - 1) + [4], zs, A, err)
+    spans = max(1, int(math.ceil(abs(turn) / 0.5)))
+    fit = _vfit_spans(za, zb, turn, spans)
+    if fit.error * rho > HELIX_FIT:
+        spans = int(math.ceil(spans * (fit.error * rho / HELIX_FIT) ** 0.25))
+    for _ in range(64):
+        fit = _vfit_spans(za, zb, turn, spans)
+        if fit.error * rho <= HELIX_FIT:
+            return fit
+        spans += max(1, spans // 8)
     raise GeometryError(f"twist of {turn:.3f} rad over one stage is too large to fit")
+
+
+def _vfit_spans(za: float, zb: float, turn: float, spans: int) -> _VFit:
+    """Cubic interpolation at the Greville points of ``spans`` uniform spans; error measured."""
+    knots = np.linspace(za, zb, spans + 1)
+    full = np.concatenate([[za] * 3, knots, [zb] * 3])
+    n = spans + 3
+    zs = np.array([full[j + 1:j + 4].mean() for j in range(n)])
+    A = np.linalg.inv(_basis(full, 3, zs))
+    th = (zs - za) / (zb - za) * turn
+    P = A @ np.column_stack([np.cos(th), np.sin(th)])
+    ts = np.linspace(za, zb, 24 * spans + 1)
+    E = _basis(full, 3, ts) @ P
+    the = (ts - za) / (zb - za) * turn
+    err = float(np.max(np.hypot(E[:, 0] - np.cos(the), E[:, 1] - np.sin(the))))
+    return _VFit(3, [float(k) for k in knots], [4] + [1] * (spans - 1) + [4], zs, A, err)
 
 
 def _place(Q: np.ndarray, c, s, t):
@@ -285,9 +317,9 @@ class _Builder:
             a.SetValue(i, int(v))
         return a
 
-    def vertex(self, x, y, z):
+    def vertex(self, x, y, z, tol: float = KERNEL_TOL):
         v = self.o.TopoDS_Vertex()
-        self.b.MakeVertex(v, self.o.gp_Pnt(float(x), float(y), float(z)), KERNEL_TOL)
+        self.b.MakeVertex(v, self.o.gp_Pnt(float(x), float(y), float(z)), tol)
         return v
 
     def edge(self, curve, v0, v1, t0, t1):
@@ -389,9 +421,8 @@ class _Track:
 def _lateral_shell(tracks: list, z0: float, z1: float):
     """Closed solid from moving loops: lateral B-spline faces + two planar caps."""
     bld = _Builder()
-    o = bld.o
     faces = []
-    horiz = []  # per track: {level index: [(edge, x, y)]}
+    horiz = []  # per track: {level index: [(edge, pole x, pole y, start vertex), ...]}
     for tr in tracks:
         levels = tr.levels(z0, z1)
         per = {}
@@ -488,7 +519,9 @@ def _planar_face(bld: _Builder, loops, z: float):
     wires = []
     for curves in loops:
         pts = [np.asarray(c.start, dtype=float) for c in curves]
-        verts = [bld.vertex(p[0], p[1], z) for p in pts]
+        # arcs end where their angles say; the next curve may start up to JUNCTION_GAP away
+        tol = max(KERNEL_TOL, 2.0 * Loop(tuple(curves)).gaps())
+        verts = [bld.vertex(p[0], p[1], z, tol) for p in pts]
         edges = []
         for i, c in enumerate(curves):
             v0, v1 = verts[i], verts[(i + 1) % len(verts)]
@@ -605,10 +638,9 @@ def body_solid(body: Body, check: bool = True):
     shapes = [_raw_prism(p, holes) for p, holes in zip(body.solids, plan.holes)]
     shape = shapes[0]
     for other in shapes[1:]:
-        op = o.BRepAlgoAPI_Fuse(shape, other)
+        op = o.BRepAlgoAPI_Fuse(shape, other)  # no SimplifyResult: it broke validity here
         if not op.IsDone():
             raise GeometryError("union of the body's prisms failed")
-        op.SimplifyResult()
         shape = op.Shape()
     for cut in plan.booleans:
         op = o.BRepAlgoAPI_Cut(shape, _raw_prism(cut))
