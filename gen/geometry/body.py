@@ -113,7 +113,11 @@ class Prism:
 
 @dataclass(frozen=True, eq=False)
 class Body:
-    """Union of ``solids`` minus the union of ``cuts`` (every cut should be straight)."""
+    """Union of ``solids`` minus the union of ``cuts``.
+
+    Cuts are meant to be straight; :func:`plan_cuts` turns the straight through-cuts that
+    stay clear of the moving boundary into plain holes, the rest go to booleans.
+    """
 
     solids: tuple
     cuts: tuple = ()
@@ -124,10 +128,6 @@ class Body:
         for p in tuple(self.solids) + tuple(self.cuts):
             if not isinstance(p, Prism):
                 raise GeometryError(f"body members must be Prism, got {type(p).__name__}")
-
-    @property
-    def z_range(self) -> tuple[float, float]:
-        return min(p.z0 for p in self.solids), max(p.z1 for p in self.solids)
 
 
 def gear_twist(beta: float, r_p: float, hand: str = "right") -> float:
@@ -296,9 +296,3 @@ def _overlap(p: np.ndarray, q: np.ndarray, gap: float) -> bool:
     if _boundary_gap(p, q) < gap:
         return True
     return _contains_point(q, p[0]) or _contains_point(p, q[0])
-
-
-def section_area(section: Section, tol: float) -> float:
-    """Area of the section's polygons at chordal tolerance ``tol`` (mm²), holes subtracted."""
-    outer, holes = section.polygons(tol)
-    return signed_area(outer) + sum(signed_area(h) for h in holes)

@@ -19,6 +19,7 @@ import math
 
 import numpy as np
 
+from gen.errors import GeometryError
 from gen.validate.findings import ERROR, INFO, Finding
 from gen.validate.measure import material_arcs, rack_teeth_on_line
 
@@ -38,13 +39,14 @@ def angular_offset(poly_a: np.ndarray, poly_b: np.ndarray, r: float,
                    teeth: int | None = None) -> float:
     """Turn (rad) that carries outline a onto outline b, folded into [−π/z, π/z).
 
-    Every tooth centre of b is paired with the centres of a through the z-fold circular mean:
-    the offset is arg Σ exp(i z (φ_b − φ_a)) / z, which needs no pairing of teeth.
+    The z-fold circular means of the tooth centres, arg Σ exp(i z φ), of the two outlines
+    differ by z·Δθ, so no tooth has to be paired with another; ``teeth`` defaults to the
+    number of teeth found on the circle.
     """
     ca, cb = tooth_centres(poly_a, r), tooth_centres(poly_b, r)
     z = teeth or len(ca)
     if z == 0 or len(cb) != len(ca):
-        raise ValueError(f"slices show {len(ca)} and {len(cb)} teeth on r = {r} mm")
+        raise GeometryError(f"slices show {len(ca)} and {len(cb)} teeth on r = {r} mm")
     ma = np.angle(np.sum(np.exp(1j * z * ca)))
     mb = np.angle(np.sum(np.exp(1j * z * cb)))
     return fold((mb - ma) / z, 2.0 * math.pi / z)
@@ -68,7 +70,7 @@ def linear_offset(poly_a: np.ndarray, poly_b: np.ndarray, y: float, pitch: float
     """Shift (mm, along +X) carrying rack outline a onto b, folded into [−p/2, p/2)."""
     xa, xb = rack_tooth_centres(poly_a, y, pitch), rack_tooth_centres(poly_b, y, pitch)
     if len(xa) == 0 or len(xb) == 0:
-        raise ValueError(f"no whole rack tooth on the line y = {y} mm")
+        raise GeometryError(f"no whole rack tooth on the line y = {y} mm")
     k = 2.0 * math.pi / pitch
     ma = np.angle(np.sum(np.exp(1j * k * xa)))
     mb = np.angle(np.sum(np.exp(1j * k * xb)))
