@@ -160,6 +160,13 @@ def test_herringbone_rack_and_boolean_fallbacks(gear20):
     r = prism_solid(rack)
     assert r.isValid() and solid_count(r) == 1
     assert r.BoundingBox().xmax == pytest.approx(rs.length + 6.0 * math.tan(BETA), abs=1e-6)
+    # a straight hole through the back stays straight while the teeth shear (no boolean)
+    hole = Prism(Section(circle(1.5, center=(0.5 * rs.length, -5.0))), 0.0, 12.0)
+    body = Body((rack,), (hole,))
+    s = body_solid(body)
+    assert s.isValid() and solid_count(s) == 1
+    assert precise_volume(s) == pytest.approx(precise_volume(r) - math.pi * 1.5 ** 2 * 12.0,
+                                              rel=1e-7)  # computed: minus a straight cylinder
     # a keyway across a round bore cannot be a plain hole: boolean with a straight prism
     loop, sz = gear20
     key = Loop(tuple(Line(p, q) for p, q in [((0, -1), (5, -1)), ((5, -1), (5, 1)),
