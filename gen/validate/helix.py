@@ -1,0 +1,131 @@
+"""Measure the helix of a twisted gear or rack on outlines sliced at two heights.
+
+A helical gear's transverse section turns by Δθ = Δz · tan β / r_p between two slices Δz
+apart (r_p the transverse reference radius, β the reference helix angle; ISO 21771 helix
+relations, from memory); a helical rack's section moves by Δx = Δz · tan β. A herringbone's
+two halves are mirror images about the mid-plane, so slices at z_m − t and z_m + t coincide.
+
+The offsets are measured by matching tooth centres: on a circle (gear) or a line (rack) the
+outline's material intervals are found exactly on the polygon edges
+(:mod:`gen.validate.measure`), each tooth's centre is the middle of its interval, and the
+offset is the circular mean of the centre differences, folded into one pitch. Both flanks
+enter every centre, so a chordal error that shifts the two flanks alike cancels.
+Polygons are (n, 2) arrays in the slice plane, mm, counter-clockwise.
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+
+from gen.errors import GeometryError
+from gen.validate.findings import ERROR, INFO, Finding
+from gen.validate.measure import material_arcs, rack_teeth_on_line
+
+#: allowed difference between the measured and the expected section turn (rad) = 0.05°
+HELIX_ANGLE_TOL = math.radians(0.05)
+
+
+def tooth_centres(poly: np.ndarray, r: float) -> np.ndarray:
+    """Angles (rad, in [0, 2π)) of the tooth centres where the outline crosses the circle r."""
+    arcs = material_arcs(np.asarray(poly, dtype=float), r)
+    if len(arcs) == 0:
+        return np.zeros(0)
+    return np.sort((arcs[:, 0] + 0.5 * arcs[:, 1]) % (2.0 * math.pi))
+
+
+def angular_offset(poly_a: np.ndarray, poly_b: np.ndarray, r: float,
+                   teeth: int | None = None) -> float:
+    """Turn (rad) that carries outline a onto outline b, folded into [−π/z, π/z).
+
+    The z-fold circular means of the tooth centres, arg Σ exp(i z φ), of the two outlines
+    differ by z·Δθ, so no tooth has to be paired with another; ``teeth`` defaults to the
+    number of teeth found on the circle.
+    """
+    ca, cb = tooth_centres(poly_a, r), tooth_centres(poly_b, r)
+    z = teeth or len(ca)
+    if z == 0 or len(cb) != len(ca):
+        raise GeometryError(f"slices show {len(ca)} and {len(cb)} teeth on r = {r} mm")
+    ma = np.angle(np.sum(np.exp(1j * z * ca)))
+    mb = np.angle(np.sum(np.exp(1j * z * cb)))
+    return fold((mb - ma) / z, 2.0 * math.pi / z)
+
+
+def rack_tooth_centres(poly: np.ndarray, y: float, pitch: float) -> np.ndarray:
+    """x (mm) of the centres of the whole rack teeth on the line y (teeth toward +Y).
+
+    Teeth cut short by the rack ends (interval width off the median by > 5 % of a pitch)
+    are left out.
+    """
+    iv = rack_teeth_on_line(np.asarray(poly, dtype=float), y, -math.inf)
+    if len(iv) == 0:
+        return np.zeros(0)
+    w = iv[:, 1] - iv[:, 0]
+    whole = np.abs(w - np.median(w)) < 0.05 * pitch
+    return np.sort(0.5 * (iv[whole, 0] + iv[whole, 1]))
+
+
+def linear_offset(poly_a: np.ndarray, poly_b: np.ndarray, y: float, pitch: float) -> float:
+    """Shift (mm, along +X) carrying rack outline a onto b, folded into [−p/2, p/2)."""
+    xa, xb = rack_tooth_centres(poly_a, y, pitch), rack_tooth_centres(poly_b, y, pitch)
+    if len(xa) == 0 or len(xb) == 0:
+        raise GeometryError(f"no whole rack tooth on the line y = {y} mm")
+    k = 2.0 * math.pi / pitch
+    ma = np.angle(np.sum(np.exp(1j * k * xa)))
+    mb = np.angle(np.sum(np.exp(1j * k * xb)))
+    return fold((mb - ma) / k, pitch)
+
+
+def fold(value: float, period: float) -> float:
+    """``value`` brought into [−period/2, period/2)."""
+    return float((value + 0.5 * period) % period - 0.5 * period)
+
+
+def expected_turn(dz: float, beta: float, r_p: float) -> float:
+    """Δθ = Δz · tan β / r_p (rad): section turn of a helical gear over Δz mm (ISO 21771)."""
+    return dz * math.tan(beta) / r_p
+
+
+def helix_angle(dtheta: float, dz: float, r_p: float) -> float:
+    """Reference helix angle β = atan(Δθ · r_p / Δz) from a measured turn (rad)."""
+    return math.atan2(dtheta * r_p, dz)
+
+
+def check_gear_helix(poly_a, poly_b, dz: float, beta: float, r_p: float, subject: str = "",
+                     tol: float = HELIX_ANGLE_TOL) -> list:
+    """Findings comparing the measured turn between two slices with Δz · tan β / r_p.
+
+    ``beta`` is signed: > 0 for a right hand (the section turns counter-clockwise as z grows).
+    """
+    got = angular_offset(poly_a, poly_b, r_p)
+    z = len(tooth_centres(poly_a, r_p))
+    want = expected_turn(dz, beta, r_p)
+    miss = fold(got - want, 2.0 * math.pi / z)
+    want = got - miss  # the expected turn, taken modulo one angular pitch like the measurement
+    src = "ISO 21771: Δθ = Δz·tan β / r_p"
+    if abs(miss) > tol:
+        return [Finding(ERROR, "helix_turn",
+                        f"section turns {math.degrees(got):.4f}° over {dz:g} mm, expected "
+                        f"{math.degrees(want):.4f}° (β {math.degrees(beta):.3f}°)", subject, src)]
+    return [Finding(INFO, "helix_turn",
+                    f"section turn {math.degrees(got):.4f}° over {dz:g} mm matches "
+                    f"β {math.degrees(helix_angle(got, dz, r_p)):.3f}°", subject, src)]
+
+
+def mirror_offset(poly_below: np.ndarray, poly_above: np.ndarray, r: float) -> float:
+    """Turn between slices at z_m − t and z_m + t of a herringbone (0 when mirror images)."""
+    return angular_offset(poly_below, poly_above, r)
+
+
+def check_herringbone_mirror(pairs, r: float, subject: str = "",
+                             tol: float = HELIX_ANGLE_TOL) -> list:
+    """Findings for slice pairs [(below, above), ...] taken symmetrically about the mid-plane."""
+    worst = max(abs(mirror_offset(a, b, r)) for a, b in pairs)
+    src = "herringbone halves mirror about the mid-plane"
+    if worst > tol:
+        return [Finding(ERROR, "herringbone_mirror",
+                        f"halves differ by {math.degrees(worst):.4f}° at the same distance from "
+                        f"the mid-plane", subject, src)]
+    return [Finding(INFO, "herringbone_mirror",
+                    f"halves mirror within {math.degrees(worst):.5f}°", subject, src)]

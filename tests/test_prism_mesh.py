@@ -1,0 +1,308 @@
+"""Meshes of straight, twisted, sheared and chevron prisms (no CAD kernel).
+
+Reference values are computed in each test from closed forms (area of a circle or square,
+Cavalieri's principle, the helix relation Δθ = Δz·tan β / r_p) or by an independent route
+(shapely polygon areas and distances).
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+import pytest
+import shapely
+import trimesh
+from shapely.geometry import Polygon
+
+from gen.errors import GeometryError
+from gen.geometry.basic_rack import basic_rack
+from gen.geometry.body import Body, Prism, gear_twist, plan_cuts, rack_shear
+from gen.geometry.cylindrical import cutter_for, gear_sizes
+from gen.geometry.gear_outline import gear_loop
+from gen.geometry.generate import generate_flank
+from gen.geometry.rack_outline import rack_loop, rack_sizes
+from gen.geometry.section import Arc, Line, Loop, Section, circle, signed_area
+from gen.mesh.prism import body_mesh, layer_heights, loop_polygon, prism_mesh, twist_step
+from gen.validate import helix
+
+BETA = math.radians(30)
+
+
+def square(a: float, cx: float = 0.0, cy: float = 0.0) -> Loop:
+    h = a / 2
+    p = [(cx - h, cy - h), (cx + h, cy - h), (cx + h, cy + h), (cx - h, cy + h)]
+    return Loop(tuple(Line(p[i], p[(i + 1) % 4]) for i in range(4)))
+
+
+def d_bore(r: float = 4.0, flat: float = 3.5) -> Loop:
+    a = math.acos(flat / r)
+    arc = Arc((0.0, 0.0), r, a, 2 * math.pi - a)
+    return Loop((arc, Line(tuple(arc.end), tuple(arc.start))))
+
+
+@pytest.fixture(scope="module")
+def gear20():
+    rk = basic_rack("A")
+    sz = gear_sizes(20, 2.0, rk, beta=BETA)
+    return gear_loop(generate_flank(20, sz.rp, cutter_for(sz, rk), sz.ra)), sz
+
+
+@pytest.fixture(scope="module")
+def rack10():
+    rk = basic_rack("A")
+    rs = rack_sizes(2.0, rk, height=8.0, teeth=10, beta=BETA)
+    return rack_loop(rs, rk), rs
+
+
+def outer_slice(mesh: trimesh.Trimesh, z: float) -> np.ndarray:
+    """Outer loop (ccw) of the mesh cut by the plane at height z."""
+    path = mesh.section(plane_origin=[0, 0, z], plane_normal=[0, 0, 1])
+    flat, _ = path.to_2D(to_2D=np.eye(4))
+    loops = [np.asarray(d)[:-1] for d in flat.discrete]
+    o = max(loops, key=lambda q: abs(signed_area(q)))
+    return o if signed_area(o) > 0 else o[::-1]
+
+
+# --------------------------------------------------------------------------- closed forms
+@pytest.mark.parametrize("tol", [0.1, 0.01, 0.001])
+def test_disc_volume_matches_pi_r2_h(tol):
+    r, h = 10.0, 5.0
+    m = prism_mesh(Prism(Section(circle(r)), 0.0, h), tol=tol)
+    assert m.is_watertight and m.is_winding_consistent
+    exact = math.pi * r * r * h  # computed: cylinder volume
+    # an inscribed polygon within tol loses at most perimeter × tol of area
+    assert exact - 2 * math.pi * r * tol * h <= m.volume <= exact
+
+
+@pytest.mark.parametrize("chevron", [False, True])
+@pytest.mark.parametrize("twist", [0.05, -0.2])
+def test_twisted_square_keeps_its_volume(twist, chevron):
+    a, h, tol = 10.0, 12.0, 0.01
+    m = prism_mesh(Prism(Section(square(a)), 0.0, h, twist=twist, chevron=chevron), tol=tol)
+    assert m.is_watertight and m.is_volume
+    exact = a * a * h  # computed: every section is the same square (Cavalieri)
+    assert abs(m.volume - exact) <= 4 * a * h * tol  # lateral area × tolerance
+
+
+@pytest.mark.parametrize("chevron", [False, True])
+def test_sheared_square_is_exact(chevron):
+    a, h = 6.0, 9.0
+    m = prism_mesh(Prism(Section(square(a)), 1.0, 1.0 + h, shear=0.7, chevron=chevron))
+    assert m.is_watertight
+    assert m.volume == pytest.approx(a * a * h, rel=1e-12)  # computed: planar walls, exact
+    top = m.vertices[np.isclose(m.vertices[:, 2], 1.0 + h)]
+    shift = 0.0 if chevron else 0.7 * h
+    assert top[:, 0].min() == pytest.approx(-a / 2 + shift, abs=1e-12)
+
+
+def test_square_with_straight_hole_in_twisted_prism():
+    # an off-axis square cut stays straight while the outer square turns (no boolean)
+    body = Body((Prism(Section(circle(20.0)), 0.0, 10.0, twist=0.1),),
+                (Prism(Section(square(4.0, cx=8.0)), 0.0, 10.0),))
+    plan = plan_cuts(body)
+    assert not plan.booleans and len(plan.holes[0]) == 1
+    m = body_mesh(body, tol=0.01)
+    assert m.is_watertight
+    exact = (math.pi * 20.0 ** 2 - 16.0) * 10.0  # computed: disc minus square, times height
+    walls = (2 * math.pi * 20.0 + 16.0) * 10.0
+    assert abs(m.volume - exact) <= walls * 0.01  # wall area × tolerance
+    lo = m.vertices[np.isclose(m.vertices[:, 2], 0.0)]
+    hi = m.vertices[np.isclose(m.vertices[:, 2], 10.0)]
+    assert np.any(np.all(np.isclose(lo[:, :2], [6.0, -2.0]), axis=1))
+    assert np.any(np.all(np.isclose(hi[:, :2], [6.0, -2.0]), axis=1))  # not rotated
+
+
+# --------------------------------------------------------------------------- tolerance bound
+def test_twist_step_solves_the_bound():
+    for r, chord, tol in [(48.0, 1.4, 0.005), (10.0, 0.0, 0.01), (100.0, 3.0, 0.001)]:
+        d = twist_step(r, chord, tol)
+        assert r * d * d / 8 + chord * d / 4 == pytest.approx(tol, rel=1e-12)
+
+
+@pytest.mark.parametrize("chevron", [False, True])
+@pytest.mark.parametrize("tol", [0.05, 0.01])
+def test_gear_walls_stay_within_tol_of_the_helicoid(gear20, tol, chevron):
+    loop, sz = gear20
+    pr = Prism(Section(loop), 0.0, 16.0, twist=gear_twist(BETA, sz.rp), chevron=chevron)
+    m = prism_mesh(pr, tol=tol)
+    assert m.is_watertight
+    walls = np.abs(m.face_normals[:, 2]) < 0.999
+    tri = m.triangles[walls]
+    # points inside each triangle: centroid and edge midpoints
+    pts = np.concatenate([tri.mean(axis=1), 0.5 * (tri[:, 0] + tri[:, 1]),
+                          0.5 * (tri[:, 1] + tri[:, 2]), 0.5 * (tri[:, 2] + tri[:, 0])])
+    pts = pts[np.random.default_rng(7).choice(len(pts), min(len(pts), 30000), replace=False)]
+    th, _ = pr.motion(pts[:, 2])
+    c, s = np.cos(-th), np.sin(-th)
+    back = np.column_stack([c * pts[:, 0] - s * pts[:, 1], s * pts[:, 0] + c * pts[:, 1]])
+    exact = shapely.LinearRing(loop.polygon(1e-4))  # samples of the true profile
+    d = shapely.distance(shapely.points(back), exact)
+    # in-plane distance bounds the 3-D one from above; 2e-3 covers the reference polygon
+    print(f"worst wall deviation {d.max():.5f} mm for tol {tol}")
+    assert d.max() <= tol + 2e-3
+    assert d.max() > 0.2 * tol  # the layer count is not wastefully high
+
+
+def test_layer_count_grows_as_tol_shrinks(gear20):
+    loop, sz = gear20
+    pr = Prism(Section(loop), 0.0, 20.0, twist=gear_twist(BETA, sz.rp), chevron=True)
+    n = [len(layer_heights(pr, sz.ra, 1.0, t)) for t in (0.02, 0.005, 0.001)]
+    assert n[0] < n[1] < n[2]
+    assert 10.0 in layer_heights(pr, sz.ra, 1.0, 0.01)  # the chevron apex is a layer
+
+
+def test_spline_thinning_keeps_tol(gear20):
+    loop, _ = gear20
+    for tol in (0.01, 0.001):
+        poly = loop_polygon(loop, tol)
+        dense = loop.polygon(1e-4)
+        assert len(poly) < len(dense)
+        d = shapely.distance(shapely.points(dense), shapely.LinearRing(poly))
+        assert d.max() <= tol * 1.001
+
+
+# --------------------------------------------------------------------------- watertight grid
+@pytest.mark.parametrize("twist,shear,chevron", [
+    (0.0, 0.0, False), (0.02, 0.0, False), (-0.02, 0.0, True), (0.0, 0.5, False),
+    (0.0, -0.5, True), (0.01, 0.2, False), (0.01, 0.2, True)])
+def test_gear_meshes_are_closed(gear20, twist, shear, chevron):
+    loop, _ = gear20
+    m = prism_mesh(Prism(Section(loop, (circle(5.0),)), -3.0, 9.0, twist=twist, shear=shear,
+                         chevron=chevron))
+    assert m.is_watertight and m.is_winding_consistent and m.volume > 0
+    assert m.bounds[0, 2] == pytest.approx(-3.0) and m.bounds[1, 2] == pytest.approx(9.0)
+
+
+def test_twist_does_not_change_gear_volume(gear20):
+    loop, sz = gear20
+    sec = Section(loop, (circle(5.0),))
+    v0 = prism_mesh(Prism(sec, 0.0, 20.0)).volume
+    v1 = prism_mesh(Prism(sec, 0.0, 20.0, twist=gear_twist(BETA, sz.rp), chevron=True)).volume
+    assert v1 == pytest.approx(v0, rel=2e-4)  # computed: Cavalieri, within the mesh tolerance
+
+
+# --------------------------------------------------------------------------- helix on slices
+@pytest.mark.parametrize("hand", ["right", "left"])
+def test_measured_helix_on_helical_gear_slices(gear20, hand):
+    loop, sz = gear20
+    tw = gear_twist(BETA, sz.rp, hand)
+    m = prism_mesh(Prism(Section(loop, (circle(5.0),)), 0.0, 20.0, twist=tw))
+    za, zb = 2.3, 9.1
+    a, b = outer_slice(m, za), outer_slice(m, zb)
+    got = helix.angular_offset(a, b, sz.rp)
+    want = (zb - za) * math.tan(BETA) / sz.rp * (1 if hand == "right" else -1)  # ISO 21771
+    assert abs(helix.fold(got - want, 2 * math.pi / 20)) < math.radians(0.05)
+    f = helix.check_gear_helix(a, b, zb - za, BETA if hand == "right" else -BETA, sz.rp)
+    assert f[0].severity == "info"
+    f = helix.check_gear_helix(a, b, zb - za, math.radians(25), sz.rp)
+    assert f[0].severity == "error"
+
+
+def test_herringbone_halves_are_mirror_images(gear20):
+    loop, sz = gear20
+    m = prism_mesh(Prism(Section(loop), 0.0, 20.0, twist=gear_twist(BETA, sz.rp), chevron=True))
+    pairs = [(outer_slice(m, 10.0 - t), outer_slice(m, 10.0 + t)) for t in (1.3, 4.0, 8.7)]
+    assert helix.check_herringbone_mirror(pairs, sz.rp)[0].severity == "info"
+    # and each half has the helix: 0 → 8.7 below the apex turns by 8.7·tan β / r_p
+    pitch = 2 * math.pi / 20
+    want = 8.7 * math.tan(BETA) / sz.rp  # ISO 21771, more than one pitch: compare folded
+    got = helix.angular_offset(outer_slice(m, 0.5), outer_slice(m, 9.2), sz.rp)
+    assert abs(helix.fold(got - want, pitch)) < math.radians(0.05)
+    got = helix.angular_offset(outer_slice(m, 10.8), outer_slice(m, 19.5), sz.rp)
+    assert abs(helix.fold(got + want, pitch)) < math.radians(0.05)
+
+
+def test_helical_rack_slices_shift_by_tan_beta(rack10):
+    loop, rs = rack10
+    m = prism_mesh(Prism(Section(loop), 0.0, 15.0, shear=rack_shear(BETA)))
+    a, b = outer_slice(m, 1.0), outer_slice(m, 4.0)
+    assert helix.linear_offset(a, b, 0.0, rs.pitch) == pytest.approx(3.0 * math.tan(BETA),
+                                                                     abs=1e-6)
+
+
+def test_offset_helpers_on_exact_polygons(gear20):
+    loop, sz = gear20
+    poly = loop.polygon(1e-3)
+    pr = Prism(Section(loop), 0.0, 1.0, twist=1.0)
+    for turn in (0.0, 0.01, -0.07, 0.3):  # 0.3 rad is more than one 18° pitch
+        got = helix.angular_offset(poly, pr.place(poly, turn), sz.rp)
+        assert got == pytest.approx(helix.fold(turn, 2 * math.pi / 20), abs=1e-9)
+    assert helix.helix_angle(helix.expected_turn(7.0, BETA, sz.rp), 7.0, sz.rp) == \
+        pytest.approx(BETA)
+
+
+# --------------------------------------------------------------------------- bodies and cuts
+def test_d_bore_goes_into_the_section(gear20):
+    loop, sz = gear20
+    body = Body((Prism(Section(loop), 0.0, 12.0, twist=gear_twist(BETA, sz.rp), chevron=True),),
+                (Prism(Section(d_bore()), -1.0, 13.0),))
+    assert plan_cuts(body).booleans == ()
+    m = body_mesh(body)
+    assert m.is_watertight
+    ref = (Polygon(loop_polygon(loop, 0.005)).area - Polygon(loop_polygon(d_bore(), 0.005)).area)
+    assert m.volume == pytest.approx(ref * 12.0, rel=2e-4)  # shapely areas, computed
+
+
+def test_keyway_across_the_bore_needs_a_boolean(gear20):
+    loop, sz = gear20
+    key = Loop(tuple(Line(p, q) for p, q in [((0, -1), (5, -1)), ((5, -1), (5, 1)),
+                                             ((5, 1), (0, 1)), ((0, 1), (0, -1))]))
+    body = Body((Prism(Section(loop, (circle(4.0),)), 0.0, 10.0, twist=gear_twist(BETA, sz.rp)),),
+                (Prism(Section(key), -1.0, 11.0),))
+    assert len(plan_cuts(body).booleans) == 1
+    m = body_mesh(body)
+    assert m.is_watertight
+    hole = Polygon(loop_polygon(circle(4.0), 0.005)).union(Polygon(loop_polygon(key, 0.005)))
+    ref = (Polygon(loop_polygon(loop, 0.005)).area - hole.area) * 10.0  # shapely union area
+    assert m.volume == pytest.approx(ref, rel=3e-4)
+
+
+def test_gear_with_hub_union(gear20):
+    loop, sz = gear20
+    gear = Prism(Section(loop, (circle(4.0),)), 0.0, 10.0, twist=gear_twist(BETA, sz.rp))
+    hub = Prism(Section(circle(9.0), (circle(4.0),)), 10.0, 16.0)
+    m = body_mesh(Body((gear, hub)))
+    assert m.is_watertight
+    ref = prism_mesh(gear).volume + prism_mesh(hub).volume  # touching only on the face
+    assert m.volume == pytest.approx(ref, rel=1e-9)
+
+
+def test_cut_planning_rules(gear20, rack10):
+    loop, sz = gear20
+    tw = gear_twist(BETA, sz.rp)
+    gear = Prism(Section(loop), 0.0, 10.0, twist=tw)
+    # a hole reaching past the root circle would meet the turning teeth: boolean
+    far = Prism(Section(circle(3.0, center=(sz.rf - 2.0, 0.0))), 0.0, 10.0)
+    assert len(plan_cuts(Body((gear,), (far,))).booleans) == 1
+    # a blind hole does not span the height: boolean
+    blind = Prism(Section(circle(3.0)), 0.0, 5.0)
+    assert len(plan_cuts(Body((gear,), (blind,))).booleans) == 1
+    # a twisted cut is never a straight hole
+    tw_cut = Prism(Section(circle(3.0, center=(5.0, 0.0))), 0.0, 10.0, twist=0.1)
+    assert len(plan_cuts(Body((gear,), (tw_cut,))).booleans) == 1
+    # two holes that overlap: the second goes to a boolean
+    h1 = Prism(Section(circle(2.0, center=(6.0, 0.0))), 0.0, 10.0)
+    h2 = Prism(Section(circle(2.0, center=(8.0, 0.0))), 0.0, 10.0)
+    plan = plan_cuts(Body((gear,), (h1, h2)))
+    assert len(plan.holes[0]) == 1 and len(plan.booleans) == 1
+    # rack: a hole in the back, clear of the teeth over the whole shear, is a plain hole
+    rl, rs = rack10
+    rack = Prism(Section(rl), 0.0, 10.0, shear=rack_shear(BETA), chevron=True)
+    back = Prism(Section(circle(1.5, center=(30.0, -6.0))), 0.0, 10.0)
+    assert plan_cuts(Body((rack,), (back,))).booleans == ()
+    m = body_mesh(Body((rack,), (back,)))
+    assert m.is_watertight
+    near_end = Prism(Section(circle(1.5, center=(1.0, -6.0))), 0.0, 10.0)
+    assert len(plan_cuts(Body((rack,), (near_end,))).booleans) == 1
+
+
+def test_bad_input_raises():
+    with pytest.raises(GeometryError):
+        Prism(Section(circle(1.0)), 2.0, 2.0)
+    with pytest.raises(GeometryError):
+        prism_mesh(Prism(Section(circle(1.0)), 0.0, 1.0), tol=0.0)
+    with pytest.raises(GeometryError):
+        Body(())
+    with pytest.raises(GeometryError):
+        gear_twist(BETA, 10.0, "up")
