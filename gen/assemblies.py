@@ -20,7 +20,6 @@ each in its own printable frame (back face on z = 0). Sign conventions: see
 from __future__ import annotations
 
 import math
-import os
 from dataclasses import dataclass, field, replace
 
 from gen.errors import GeometryError, ParamError
@@ -32,6 +31,7 @@ from gen.parts import common_keys as K
 from gen.parts.bevel_gear import bevel_model
 from gen.validate.bevel_interference import differential_findings
 from gen.validate.findings import ERROR, INFO, Finding
+from gen.params.project import display_path
 
 ASSEMBLY_KINDS = ("bevel_differential",)
 DIFF_KEYS = (
@@ -132,7 +132,7 @@ def build_assembly(entry) -> tuple[Assembly, dict]:
     except GeometryError as exc:
         found = [Finding(ERROR, "bevel-placement", str(exc), entry.label, "")]
         reports = []
-    rel = os.path.relpath(entry.file)
+    rel = display_path(entry.file)
     asm.findings = [replace(f, where=f"{rel}:{entry.line(None)}", scope="assembly",
                             key=f.key or ("output_mounting_error" if shift else ""))
                     for f in found]
@@ -170,7 +170,7 @@ def check_assemblies(result) -> None:
             continue
         result.models.update(models)
         for m in models.values():
-            result.findings += [replace(f, where=f.where or os.path.relpath(entry.file))
+            result.findings += [replace(f, where=f.where or display_path(entry.file))
                                 for f in m.findings]
         result.findings += asm.findings
         result.assemblies.append(asm)

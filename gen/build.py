@@ -21,6 +21,7 @@ from dataclasses import dataclass, field
 from gen import __version__
 from gen.errors import PitchlineError
 from gen.validate.findings import ERROR, Finding, has_errors
+from gen.params.project import display_path
 
 MANIFEST = "manifest.json"
 
@@ -82,6 +83,8 @@ def export_part(model, out: str, formats) -> PartOutcome:
             if z is None:
                 z = 0.5 * model.sizes.get("face_width", 0.0)
             outcome.findings += model.mesh_check(slice_polygons(mesh, z), z)
+        if model.helix_check is not None:
+            outcome.findings += model.helix_check(lambda zz: slice_polygons(mesh, zz))
         if has_errors(outcome.findings):
             outcome.ok, outcome.status = False, "failed"
             return outcome
@@ -302,7 +305,7 @@ def write_manifest(out: str, result, outcomes: dict, formats=()) -> str:
             "kind": model.kind,
             "train": model.train,
             "assembly": getattr(model, "assembly", None),
-            "source": os.path.relpath(model.file) if model.file else None,
+            "source": display_path(model.file) if model.file else None,
             "params_hash": params_hash(model, formats),
             "sizes": model.sizes,
             "files": oc.files if oc else {},

@@ -9,12 +9,12 @@ An entry names two ``timing_pulley`` parts, or gives a profile and two tooth cou
 
 from __future__ import annotations
 
-import os
 from dataclasses import replace
 
 from gen.errors import GeometryError, ParamError
 from gen.geometry.belt import solve_drive
 from gen.validate.findings import ERROR, Finding
+from gen.params.project import display_path
 
 DRIVE_KEYS = ("pulleys", "profile", "teeth", "center_distance", "belt_teeth", "stock", "adjust")
 
@@ -78,7 +78,7 @@ def check_drives(result) -> None:
             key = "center_distance" if center is not None else "belt_teeth"
             result.findings.append(_err(entry, key, str(exc)))
             continue
-        rel = os.path.relpath(entry.file)
+        rel = display_path(entry.file)
         found = [replace(f, subject=entry.label, where=f"{rel}:{entry.line(None)}", scope="drive")
                  for f in sol.findings]
         result.findings += found

@@ -3,7 +3,6 @@ and the picture for the report. Numpy and shapely only (no CAD kernel)."""
 
 from __future__ import annotations
 
-import os
 from dataclasses import replace
 
 from gen.errors import GeometryError, ParamError
@@ -12,6 +11,7 @@ from gen.validate.findings import ERROR, Finding
 from gen.validate.pair_basic import basic_pair_findings
 from gen.validate.pair_checks import pair_findings
 from gen.validate.sweep import sweep_pair, sweep_rack
+from gen.params.project import display_path
 
 MESH_KEYS = ("parts", "center_distance", "print_clearance", "torque", "speed", "material",
              "safety_factor")
@@ -152,7 +152,7 @@ def check_meshes(result) -> None:
             continue
         label = f"{names[0]}+{names[1]}"
         found, numbers, picture = check_pair(label, names, a, b, entry)
-        rel = os.path.relpath(entry.file)
+        rel = display_path(entry.file)
         found = [f if f.code == "parameter" else
                  replace(f, where=f.where or f"{rel}:{entry.line('parts')}", key=f.key or "parts",
                          scope="mesh")

@@ -5,11 +5,10 @@ Nothing here imports the CAD kernel or trimesh; :mod:`gen.build` exports what pa
 
 from __future__ import annotations
 
-import os
 from dataclasses import dataclass, field, replace
 
 from gen.errors import ParamError
-from gen.params.project import RawProject, load_project
+from gen.params.project import display_path, RawProject, load_project
 from gen.parts.base import resolve
 from gen.validate.findings import ERROR, Finding, has_errors
 
@@ -37,7 +36,7 @@ def _locate(f: Finding, raw) -> Finding:
     if f.where or f.subject != raw.name:
         return f
     line = raw.line(f.key or None)
-    rel = os.path.relpath(raw.file) if raw.file else "<input>"
+    rel = display_path(raw.file) if raw.file else "<input>"
     return replace(f, where=f"{rel}:{line}" if line else rel)
 
 

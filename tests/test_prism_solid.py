@@ -150,7 +150,8 @@ def test_helical_rack(tmp_path):
     s, _, mesh = round_trip(Body((pr,)), tmp_path, "rack")
     bb = s.BoundingBox()
     assert bb.xmax == pytest.approx(rs.length + 12.0 * math.tan(BETA), abs=1e-6)  # computed
-    assert mesh.volume == pytest.approx(s.Volume(), rel=1e-7)  # planar faces; STL is float32
+    # root fillets are true arcs: the mesh's chords (0.01 mm) cost < 2e-4 of the volume
+    assert mesh.volume == pytest.approx(s.Volume(), rel=2e-4)
 
 
 def test_herringbone_rack_and_boolean_fallbacks(gear20):
@@ -165,8 +166,9 @@ def test_herringbone_rack_and_boolean_fallbacks(gear20):
     body = Body((rack,), (hole,))
     s = body_solid(body)
     assert s.isValid() and solid_count(s) == 1
+    # computed: minus a straight cylinder (kernel volume integration good to ~1e-6 here)
     assert precise_volume(s) == pytest.approx(precise_volume(r) - math.pi * 1.5 ** 2 * 12.0,
-                                              rel=1e-7)  # computed: minus a straight cylinder
+                                              rel=1e-6)
     # a keyway across a round bore cannot be a plain hole: boolean with a straight prism
     loop, sz = gear20
     key = Loop(tuple(Line(p, q) for p, q in [((0, -1), (5, -1)), ((5, -1), (5, 1)),

@@ -136,3 +136,25 @@ def signed_area(poly: np.ndarray) -> float:
 def rotate(points: np.ndarray, angle: float) -> np.ndarray:
     c, s = math.cos(angle), math.sin(angle)
     return points @ np.array([[c, s], [-s, c]])
+
+
+def _move_curve(c, angle: float, dx: float):
+    co, si = math.cos(angle), math.sin(angle)
+
+    def pt(p):
+        x, y = float(p[0]), float(p[1])
+        return (co * x - si * y + dx, si * x + co * y)
+
+    if isinstance(c, Spline):
+        p = c.points
+        return Spline(np.column_stack([co * p[:, 0] - si * p[:, 1] + dx, si * p[:, 0] + co * p[:, 1]]))
+    if isinstance(c, Arc):
+        return Arc(pt(c.center), c.radius, c.a0 + angle, c.a1 + angle)
+    return Line(pt(c.p0), pt(c.p1))
+
+
+def moved(section: Section, angle: float = 0.0, dx: float = 0.0) -> Section:
+    """The section turned by ``angle`` (rad, about the origin) and then moved ``dx`` along +X."""
+    def loop(lp):
+        return Loop(tuple(_move_curve(c, angle, dx) for c in lp.curves), circle=lp.circle)
+    return Section(loop(section.outer), tuple(loop(h) for h in section.holes))

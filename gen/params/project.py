@@ -73,6 +73,12 @@ class RawProject:
     entries: dict = field(default_factory=dict)        # section -> [RawEntry]
 
 
+def display_path(path: str) -> str:
+    """A path as messages show it: relative to the working folder when it lies inside it."""
+    rel = os.path.relpath(path)
+    return path if rel.startswith("..") else rel
+
+
 def find_files(paths) -> list[str]:
     """YAML files named or found (non-recursively sorted, recursively) in folders."""
     out = []

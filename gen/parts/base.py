@@ -23,6 +23,10 @@ KINDS = {
     "bevel_gear": "bevel_gear",
     "miter_gear": "miter_gear",
     "fit_coupon": "coupon",
+    "helical_gear": "helical_gear",
+    "herringbone_gear": "herringbone_gear",
+    "helical_rack": "helical_rack",
+    "herringbone_rack": "herringbone_rack",
 }
 
 
@@ -47,6 +51,7 @@ class PartModel:
     bevel: dict = field(default_factory=dict)   # bevel sizes and flank
     profile_section: object = None  # the toothed 2-D Section (DXF), when the part has one
     rating: object = None        # callable → strength rating dict (gears)
+    helix_check: object = None   # callable(slicer) → findings, for twisted/sheared parts
     mesh_fn: object = None       # builds the trimesh when ``body`` is None
     solid_fn: object = None      # builds the CAD solid when ``body`` is None
 

@@ -36,10 +36,11 @@ def bore_of(values) -> Bore | None:
 
 
 def make_gear(name: str, values: dict, where, *, kind: str, beta: float = 0.0,
-              twist_sign: float = 0.0, chevron: bool = False) -> PartModel:
+              hand: str | None = None, chevron: bool = False, groove: float = 0.0) -> PartModel:
     """Generate, measure and describe one cylindrical gear.
 
-    ``beta`` is the helix angle (rad); ``twist_sign`` +1 right hand, −1 left hand, 0 spur.
+    ``beta`` is the helix angle (rad), ``hand`` "right"/"left" for helical gears (None: spur),
+    ``chevron`` makes a herringbone with an optional plain centre ``groove`` (mm).
     """
     rack = basic_rack(values["profile"]).with_alpha(values["pressure_angle"])
     m, z, b = values["module"], values["teeth"], values["face_width"]
@@ -74,8 +75,17 @@ def make_gear(name: str, values: dict, where, *, kind: str, beta: float = 0.0,
                               addendum=rack.addendum, face_width=b, bore_radius=bore_r,
                               rack_root=rack.root_radius * m)
     findings += min_feature_findings(name, fit, flank, sizes, bore_r)
-    twist = twist_sign * math.tan(beta) / sizes.rp if beta else 0.0
-    solids = [Prism(Section(loop, holes), 0.0, b, twist=twist, chevron=chevron)]
+    if beta:
+        from gen.parts.helical import gear_twist, twisted_gear_body
+
+        twist = gear_twist(beta, sizes.rp, hand)
+        solids, extra = twisted_gear_body(Section(loop, holes), b, twist, chevron, groove,
+                                          sizes.rf, holes, where)
+        solids = list(solids)
+        findings += extra
+    else:
+        twist = 0.0
+        solids = [Prism(Section(loop, holes), 0.0, b)]
     hub = values.get("hub")
     if hub:
         if hub["diameter"] / 2.0 >= sizes.rf:
@@ -88,6 +98,13 @@ def make_gear(name: str, values: dict, where, *, kind: str, beta: float = 0.0,
     body = Body(tuple(solids))
     model = _model(name, kind, values, body, sizes, findings, poly, flank, beta)
     model.profile_section = solids[0].section
+    if beta:
+        from gen.parts.helical import helix_mesh_check
+
+        model.helix_check = helix_mesh_check(model, sizes, twist, chevron, b)
+        model.tooth.update(hand=hand, chevron=chevron)
+        if chevron:
+            model.mesh_check_z = b / 4.0  # inside the lower half, clear of any groove
     model.rating = lambda: gear_rating(name, values, sizes, rack)
     return model
 

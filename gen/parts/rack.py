@@ -33,7 +33,7 @@ KEYS = RACK_KEYS + (
 )
 
 
-def make_rack(name, values, where, *, kind, beta=0.0, shear_sign=0.0, chevron=False):
+def make_rack(name, values, where, *, kind, beta=0.0, hand=None, chevron=False):
     if (values["length"] is None) == (values["teeth"] is None):
         raise where.error("length", "give either length (mm) or teeth, not both or neither")
     rack = basic_rack(values["profile"]).with_alpha(values["pressure_angle"])
@@ -55,7 +55,12 @@ def make_rack(name, values, where, *, kind, beta=0.0, shear_sign=0.0, chevron=Fa
     if module_series(m) is None:
         findings.append(Finding(INFO, "module-series", f"module {m:g} mm is not in the ISO 54 / "
                                 "DIN 780 preferred series", name, "ISO 54 / DIN 780", key="module"))
-    shear = shear_sign * math.tan(beta)
+    if beta:
+        from gen.parts.helical import opposite, rack_shear
+        # a rack meshes with the pinion of the opposite hand
+        shear = rack_shear(beta, mates_with=opposite(hand))
+    else:
+        shear = 0.0
     body = Body((Prism(Section(loop), 0.0, values["face_width"], shear=shear, chevron=chevron),))
     manifest = {"module": m, "pressure_angle": math.degrees(rack.alpha), "pitch": sizes.pitch,
                 "height": sizes.height, "length": sizes.length, "teeth": sizes.teeth,
@@ -79,6 +84,12 @@ def make_rack(name, values, where, *, kind, beta=0.0, shear_sign=0.0, chevron=Fa
 
     model.mesh_check = mesh_check if not chevron and not shear else None
     model.profile_section = Section(loop)
+    if beta:
+        from gen.parts.helical import rack_helix_check
+
+        model.helix_check = rack_helix_check(name, sizes.pitch, shear, chevron,
+                                             values["face_width"])
+        model.tooth.update(hand=hand, chevron=chevron)
     return model
 
 

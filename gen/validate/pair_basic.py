@@ -28,6 +28,18 @@ def basic_pair_findings(label: str, a: str, ta: dict, b: str, tb: dict) -> list:
                            f"'{a}' has pressure angle {math.degrees(aa):g}° but '{b}' has "
                            f"{math.degrees(ab):g}°: they cannot mesh", label,
                            "equal normal pressure angle"))
+    if abs(ba - bb) > 1e-9:
+        out.append(Finding(ERROR, "helix-mismatch",
+                           f"'{a}' has helix angle {math.degrees(ba):g}° but '{b}' has "
+                           f"{math.degrees(bb):g}°: they cannot mesh", label,
+                           "equal helix angle (ISO 21771)", key="helix_angle"))
+    if ta.get("hand") and tb.get("hand") and ta["hand"] == tb["hand"]:
+        out.append(Finding(ERROR, "same-hand", f"'{a}' and '{b}' are both {ta['hand']}-hand: "
+                           "meshing helical members need opposite hands", label,
+                           "parallel-axis helical mesh (ISO 21771)", key="hand"))
+    if bool(ta.get("chevron")) != bool(tb.get("chevron")):
+        out.append(Finding(ERROR, "herringbone-mix", f"'{a}' and '{b}': a herringbone meshes "
+                           "only with a herringbone", label, ""))
     if ta["role"] == "rack" and tb["role"] == "rack":
         out.append(Finding(ERROR, "rack-rack", "two racks cannot mesh with each other", label, ""))
     return out
