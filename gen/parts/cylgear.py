@@ -101,7 +101,7 @@ def make_gear(name: str, values: dict, where, *, kind: str, beta: float = 0.0,
     if beta:
         from gen.parts.helical import helix_mesh_check
 
-        model.helix_check = helix_mesh_check(model, sizes, twist, chevron, b)
+        model.helix_check = helix_mesh_check(model, sizes, twist, chevron, b, groove)
         model.tooth.update(hand=hand, chevron=chevron)
         if chevron:
             model.mesh_check_z = b / 4.0  # inside the lower half, clear of any groove

@@ -50,7 +50,8 @@ def twisted_gear_body(section: Section, face: float, twist: float, chevron: bool
             Prism(upper, h1 + groove, face, twist=-twist)), []
 
 
-def helix_mesh_check(model, sizes, twist: float, chevron: bool, face: float):
+def helix_mesh_check(model, sizes, twist: float, chevron: bool, face: float,
+                     groove: float = 0.0):
     """Measure the helix on slices of the exported mesh: the turn between two heights is
     Δz·tan β / r_p within 0.05°, and a herringbone's halves mirror about the mid-plane."""
     from gen.validate.helix import check_gear_helix, check_herringbone_mirror
@@ -60,7 +61,7 @@ def helix_mesh_check(model, sizes, twist: float, chevron: bool, face: float):
 
     def check(polys_at):
         out = []
-        span = face / 2.0 if chevron else face
+        span = (face - groove) / 2.0 if chevron else face   # toothed height of one helix
         z_a, z_b = 0.1 * span, 0.9 * span
         pa = max(polys_at(z_a), key=len)
         pb = max(polys_at(z_b), key=len)
@@ -69,7 +70,7 @@ def helix_mesh_check(model, sizes, twist: float, chevron: bool, face: float):
         if chevron:
             zm = face / 2.0
             pairs = [(max(polys_at(zm - t), key=len), max(polys_at(zm + t), key=len))
-                     for t in (0.2 * zm, 0.6 * zm)]
+                     for t in (groove / 2.0 + 0.2 * span, groove / 2.0 + 0.8 * span)]
             out += [Finding(f.severity, f.code, f.message, name, f.source)
                     for f in check_herringbone_mirror(pairs, sizes.rp, subject=name)]
         return out

@@ -1,0 +1,133 @@
+"""Helical and herringbone gears and racks: ISO 21771 relations, worked examples, the helix
+measured on exported meshes, valid solids, and refused input."""
+
+import math
+
+import pytest
+
+from gen.cli import main
+from gen.geometry.basic_rack import basic_rack
+from gen.geometry.cylindrical import gear_sizes
+from gen.geometry.pair import mesh_pair
+from gen.pipeline import check
+
+IN = 25.4
+
+
+def test_shigley_example_13_2():
+    # Shigley, Mechanical Engineering Design, Example 13-2 (inputs doc, results computed):
+    # φn 20°, ψ 25°, Pt 6 teeth/in, 18 teeth → d 3.000 in, pn 0.4745 in, px 1.1229 in,
+    # φt 21.88°. Pt = 6 → transverse module 25.4/6 mm, normal module mt cos ψ.
+    beta = math.radians(25)
+    mn = IN / 6 * math.cos(beta)
+    g = gear_sizes(18, mn, basic_rack("A", 20), beta=beta)
+    assert g.d / IN == pytest.approx(3.000, abs=5e-4)
+    assert math.pi * g.mn / IN == pytest.approx(0.4745, abs=5e-4)          # normal pitch
+    assert math.pi * g.mn / math.sin(beta) / IN == pytest.approx(1.1229, abs=5e-4)  # axial
+    assert math.degrees(g.alpha_t) == pytest.approx(21.88, abs=5e-3)
+
+
+def test_metric_helical_pair():
+    # shared references (computed): mn 2, β 15°, z 20/40 → mt 2.0706, αt 20.647°,
+    # d 41.411/82.822, a 62.117 mm
+    rack, beta = basic_rack("A"), math.radians(15)
+    g1, g2 = gear_sizes(20, 2.0, rack, beta=beta), gear_sizes(40, 2.0, rack, beta=beta)
+    assert g1.mt == pytest.approx(2.0706, abs=5e-5)
+    assert math.degrees(g1.alpha_t) == pytest.approx(20.647, abs=5e-4)
+    assert (g1.d, g2.d) == (pytest.approx(41.411, abs=5e-4), pytest.approx(82.822, abs=5e-4))
+    assert mesh_pair(g1, g2).reference_center_distance == pytest.approx(62.117, abs=5e-4)
+    # overlap ratio εβ = b sin β / (π mn) (ISO 21771, from memory), b = 20 mm
+    pr = mesh_pair(g1, g2, face_width=20.0)
+    assert pr.overlap_ratio == pytest.approx(20 * math.sin(beta) / (math.pi * 2.0))
+
+
+PARTS = """parts:
+  hel: {kind: helical_gear, module: 2, teeth: 20, face_width: 10, helix_angle: 20, bore: 6}
+  her: {kind: herringbone_gear, module: 2, teeth: 24, face_width: 12, helix_angle: 30, bore: 8, groove: 2}
+  hrack: {kind: helical_rack, module: 2, teeth: 8, face_width: 10, height: 8, helix_angle: 20, hand: left}
+  vrack: {kind: herringbone_rack, module: 2, teeth: 8, face_width: 12, height: 8, helix_angle: 30, hand: left}
+  tgear: {kind: helical_gear, module: 2.0, module_basis: transverse, teeth: 20, face_width: 5, helix_angle: 20}
+"""
+
+
+@pytest.fixture(scope="module")
+def built(tmp_path_factory):
+    d = tmp_path_factory.mktemp("hel")
+    src = d / "h.yaml"
+    src.write_text(PARTS)
+    out = d / "out"
+    assert main(["build", str(src), "--out", str(out)]) == 0
+    return out, check([str(src)])
+
+
+def test_helix_measured_on_exported_stl(built):
+    import trimesh
+
+    from gen.mesh.prism import slice_polygons
+    from gen.validate.helix import angular_offset, expected_turn, fold, linear_offset
+
+    out, res = built
+    s = res.models["hel"].tooth["sizes"]
+    mesh = trimesh.load(out / "hel.stl")
+    a, b = (max(slice_polygons(mesh, z), key=len) for z in (1.0, 9.0))
+    turn = angular_offset(a, b, s.rp, 20)
+    # Δθ = Δz tan β / r_p (ISO 21771 helix), right hand turns counter-clockwise: within 0.05°
+    want = fold(expected_turn(8.0, s.beta, s.rp), 2 * math.pi / 20)
+    assert math.degrees(abs(turn - want)) < 0.05
+    # herringbone halves mirror about the mid-plane (6 mm)
+    mesh = trimesh.load(out / "her.stl")
+    r = res.models["her"].tooth["sizes"].rp
+    lo, hi = (max(slice_polygons(mesh, z), key=len) for z in (2.0, 10.0))
+    assert math.degrees(abs(angular_offset(lo, hi, r, 24))) < 0.05
+    # helical rack: tooth traces shift Δx = Δz tan β along the rack
+    mesh = trimesh.load(out / "hrack.stl")
+    p = res.models["hrack"].sizes["pitch"]
+    a, b = (max(slice_polygons(mesh, z), key=len) for z in (1.0, 3.0))
+    assert linear_offset(a, b, 0.0, p) == pytest.approx(fold(2.0 * math.tan(math.radians(20)), p), abs=1e-3)
+
+
+def test_step_reimports_and_volumes_agree(built):
+    import trimesh
+
+    from gen.export.step import read_step
+
+    out, _ = built
+    for name in ("hel", "her", "hrack", "vrack"):
+        shape = read_step(str(out / f"{name}.step"))
+        assert len(shape.Solids()) == 1 and shape.Solids()[0].isValid(), name
+        mesh = trimesh.load(out / f"{name}.stl")
+        assert mesh.is_watertight
+        # issue requirement: STL volume within 0.2 % of the STEP volume
+        assert mesh.volume == pytest.approx(shape.Solids()[0].Volume(), rel=2e-3), name
+
+
+def test_transverse_module_basis(built):
+    _, res = built
+    s = res.models["tgear"].tooth["sizes"]
+    # module_basis transverse: mt given, mn = mt cos β (ISO 21771)
+    assert s.mt == pytest.approx(2.0)
+    assert s.mn == pytest.approx(2.0 * math.cos(math.radians(20)))
+    assert s.d == pytest.approx(40.0)
+
+
+@pytest.mark.parametrize("text,words", [
+    ("parts:\n  g: {kind: helical_gear, module: 2, teeth: 20, face_width: 5, helix_angle: 60}\n",
+     ["helix_angle", "out of range"]),
+    ("parts:\n  g: {kind: helical_gear, module: 2, teeth: 20, face_width: 5, helix_angle: -10}\n",
+     ["helix_angle", "out of range"]),
+    ("parts:\n  g: {kind: herringbone_gear, module: 2, teeth: 20, face_width: 5, groove: 6}\n",
+     ["groove", "face width"]),
+    ("parts:\n  g: {kind: helical_gear, module: 2, teeth: 20, face_width: 5, helix_angle: 20}\n"
+     "  r: {kind: helical_rack, module: 2, teeth: 9, face_width: 5, height: 6, helix_angle: 15, hand: left}\n"
+     "meshes:\n  - parts: [g, r]\n", ["g+r", "helix angle"]),
+    ("parts:\n  g: {kind: helical_gear, module: 2, teeth: 20, face_width: 5, helix_angle: 20}\n"
+     "  r: {kind: helical_rack, module: 2, teeth: 9, face_width: 5, height: 6, helix_angle: 20, hand: right}\n"
+     "meshes:\n  - parts: [g, r]\n", ["g+r", "opposite hands"]),
+    ("parts:\n  g: {kind: herringbone_gear, module: 2, teeth: 20, face_width: 5, helix_angle: 20}\n"
+     "  r: {kind: helical_rack, module: 2, teeth: 9, face_width: 5, height: 6, helix_angle: 20, hand: left}\n"
+     "meshes:\n  - parts: [g, r]\n", ["g+r", "herringbone"]),
+])
+def test_helical_bad_input(text, words, write_yaml, capsys):
+    assert main(["check", write_yaml(text)]) == 1
+    out = capsys.readouterr()
+    assert any(all(w in ln for w in words) for ln in (out.out + out.err).splitlines()), out.out
