@@ -152,3 +152,20 @@ def test_rows_carry_the_numbers():
     assert rows["operating pressure angle"] == f"{pr.working_pressure_angle:.3f}°"
     assert rows["sweep result"] == sw.status
     assert math.isclose(float(rows["contact ratio ε_α"]), pr.contact_ratio, abs_tol=5e-4)
+
+
+def test_demo_report_ids_are_unique(tmp_path):
+    # several SVGs inlined in one page: every id must be unique, or a browser draws the
+    # first figure's outlines in the later ones (seen in headless Chromium before the fix)
+    import re
+
+    from conftest import PARAMS
+    from gen.cli import main
+
+    page = tmp_path / "r.html"
+    assert main(["check", PARAMS, "--report", str(page)]) == 0
+    html = page.read_text(encoding="utf-8")
+    ids = re.findall(r'\bid="([^"]+)"', html)
+    assert len(ids) >= 6 and len(ids) == len(set(ids))
+    for ref in re.findall(r'href="#([^"]+)"', html):
+        assert ref in ids

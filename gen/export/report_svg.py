@@ -11,6 +11,8 @@ both panels; text and markers are placed in pixel coordinates so they are never 
 
 from __future__ import annotations
 
+import hashlib
+
 import math
 from xml.sax.saxutils import escape
 
@@ -114,15 +116,18 @@ def mesh_svg(poly1: np.ndarray, poly2: np.ndarray, pair: PairResult,
     half = max(3.2 * pair.mn, 0.75 * (pair.contact_path[0] + pair.contact_path[1]))
     zoom = _Panel(_PANELS[1], (p_pt[0] - half, p_pt[0] + half, p_pt[1] - half, p_pt[1] + half))
 
+    # ids must be unique across every SVG inlined in one page: derive them from the content
+    uid = "s" + hashlib.sha1((title + _path_d(w1)[:200]).encode()).hexdigest()[:8]
     out = [f'<svg xmlns="http://www.w3.org/2000/svg" xmlns:xlink="http://www.w3.org/1999/xlink" '
            f'width="{WIDTH}" height="{HEIGHT}" viewBox="0 0 {WIDTH} {HEIGHT}" '
            f'font-family="Helvetica, Arial, sans-serif" font-size="12">']
     out.append(f'<title>{escape(title or "mesh")}</title>')
     out.append("<defs>")
-    out.append(f'<path id="m1" class="outline member-1" d="{_path_d(w1)}"/>')
-    out.append(f'<path id="m2" class="outline member-2" d="{_path_d(w2)}"/>')
+    out.append(f'<path id="{uid}m1" class="outline member-1" d="{_path_d(w1)}"/>')
+    out.append(f'<path id="{uid}m2" class="outline member-2" d="{_path_d(w2)}"/>')
     for i, (x, y, w, h) in enumerate(_PANELS):
-        out.append(f'<clipPath id="clip{i}"><rect x="{x}" y="{y}" width="{w}" height="{h}"/></clipPath>')
+        out.append(f'<clipPath id="{uid}clip{i}"><rect x="{x}" y="{y}" width="{w}" '
+                   f'height="{h}"/></clipPath>')
     out.append("</defs>")
     out.append(f'<rect width="{WIDTH}" height="{HEIGHT}" fill="{st["page"]}"/>')
     out.append(f'<text x="16" y="28" font-size="16" fill="{st["ink"]}">{escape(title)}</text>')
@@ -132,10 +137,10 @@ def mesh_svg(poly1: np.ndarray, poly2: np.ndarray, pair: PairResult,
         x, y, w, h = panel.rect
         out.append(f'<rect x="{x}" y="{y}" width="{w}" height="{h}" fill="{st["panel"]}" '
                    f'stroke="{st["frame"]}"/>')
-        out.append(f'<g clip-path="url(#clip{i})"><g transform="{panel.matrix()}">')
-        out.append(f'<use xlink:href="#m1" href="#m1" fill="{st["fill1"]}" stroke="{st["line1"]}" '
+        out.append(f'<g clip-path="url(#{uid}clip{i})"><g transform="{panel.matrix()}">')
+        out.append(f'<use xlink:href="#{uid}m1" href="#{uid}m1" fill="{st["fill1"]}" stroke="{st["line1"]}" '
                    f'{_stroke(k, 1.0)}/>')
-        out.append(f'<use xlink:href="#m2" href="#m2" fill="{st["fill2"]}" stroke="{st["line2"]}" '
+        out.append(f'<use xlink:href="#{uid}m2" href="#{uid}m2" fill="{st["fill2"]}" stroke="{st["line2"]}" '
                    f'{_stroke(k, 1.0)} fill-opacity="0.9"/>')
         out.extend(_reference_marks(pair, k))
         # line of action (drive), its mirror (coast), the active contact path
