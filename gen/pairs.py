@@ -94,6 +94,53 @@ def check_pair(label, names, a, b, entry):
                                         tb.get("rack_sizes") if tb["role"] == "rack" else None)
 
 
+def check_bevel_pair(label, names, a, b):
+    """A declared pair of bevel gears: same tooth system, each other's tooth counts, one
+    shaft angle, shifts x and −x; contact ratio of the Tredgold virtual spur pair."""
+    import math
+
+    from gen.geometry.cylindrical import gear_sizes
+
+    sa, sb = a.bevel["sizes"], b.bevel["sizes"]
+    src = "straight bevel pair (ISO 23509 conventions)"
+    errs = []
+
+    def bad(msg, key="parts"):
+        errs.append(Finding(ERROR, "bevel-mismatch", msg, label, src, key=key))
+
+    if abs(sa.module - sb.module) > 1e-9:
+        bad(f"modules differ ({sa.module:g} and {sb.module:g} mm)", "module")
+    if abs(sa.alpha - sb.alpha) > 1e-9:
+        bad("pressure angles differ", "pressure_angle")
+    if sa.mating_z != sb.z or sb.mating_z != sa.z:
+        bad(f"'{names[0]}' is cut for {sa.mating_z} mating teeth and '{names[1]}' for "
+            f"{sb.mating_z}: each must name the other's tooth count", "mating_teeth")
+    if abs(sa.shaft_angle - sb.shaft_angle) > 1e-9:
+        bad("shaft angles differ", "shaft_angle")
+    if abs(sa.x + sb.x) > 1e-9:
+        bad(f"profile shifts {sa.x:g} and {sb.x:g}: a bevel pair takes x and −x", "profile_shift")
+    if errs:
+        return errs, {}, None
+    rack = sa.rack
+    va = gear_sizes(sa.zv, sa.module, rack, x=sa.x, thinning=sa.thinning)
+    vb = gear_sizes(sb.zv, sb.module, rack, x=sb.x, thinning=sb.thinning)
+    pr = mesh_pair(va, vb, face_width=min(sa.b, sb.b))
+    numbers = {"center_distance": sa.Re, "outer_cone_distance": sa.Re,
+               "working_pressure_angle": math.degrees(sa.alpha),
+               "contact_ratio": pr.contact_ratio, "backlash_normal": pr.backlash_normal,
+               "pitch_cone_angles": [math.degrees(sa.delta), math.degrees(sb.delta)],
+               "mounting_distances": [sa.mounting_distance, sb.mounting_distance]}
+    found = [Finding("info", "bevel-pair", f"pitch cones {math.degrees(sa.delta):.3f}° + "
+                     f"{math.degrees(sb.delta):.3f}° = {math.degrees(sa.delta + sb.delta):.3f}°; "
+                     f"mount the back faces {sa.mounting_distance:.3f} and "
+                     f"{sb.mounting_distance:.3f} mm from the common apex; virtual (Tredgold) "
+                     f"contact ratio {pr.contact_ratio:.3f}", label, src)]
+    if pr.contact_ratio < 1.1:
+        found.append(Finding(ERROR, "contact-ratio-low", f"virtual contact ratio "
+                             f"{pr.contact_ratio:.3f} < 1.1", label, "common practice"))
+    return found, numbers, None
+
+
 def strength_of_pair(label, names, a, b, torque: float, rpm: float) -> list:
     """Lewis check of both members under the declared torque (N·m) and speed (rpm) of the
     part named first in the mesh; the mate carries it scaled by the tooth ratio."""
@@ -147,11 +194,15 @@ def check_meshes(result) -> None:
         a, b = (result.models.get(n) for n in names)
         if a is None or b is None:
             continue  # the part itself already failed and says why
-        if not a.tooth or not b.tooth:
-            result.findings.append(_err(entry, "parts", "both parts must be gears or racks"))
-            continue
         label = f"{names[0]}+{names[1]}"
-        found, numbers, picture = check_pair(label, names, a, b, entry)
+        if a.bevel and b.bevel:
+            found, numbers, picture = check_bevel_pair(label, names, a, b)
+        elif not a.tooth or not b.tooth:
+            result.findings.append(_err(entry, "parts", "both parts must be cylindrical gears "
+                                        "or racks, or both bevel gears"))
+            continue
+        else:
+            found, numbers, picture = check_pair(label, names, a, b, entry)
         rel = display_path(entry.file)
         found = [f if f.code == "parameter" else
                  replace(f, where=f.where or f"{rel}:{entry.line('parts')}", key=f.key or "parts",
