@@ -30,7 +30,7 @@ from gen.params.schema import REQUIRED, Key, Where, check_mapping, suggest
 from gen.parts import common_keys as K
 from gen.parts.bevel_gear import bevel_model
 from gen.validate.bevel_interference import differential_findings
-from gen.validate.findings import ERROR, INFO, Finding
+from gen.findings import ERROR, INFO, Finding
 from gen.params.project import display_path
 
 ASSEMBLY_KINDS = ("bevel_differential",)
@@ -174,30 +174,3 @@ def check_assemblies(result) -> None:
                                 for f in m.findings]
         result.findings += asm.findings
         result.assemblies.append(asm)
-
-
-def assembly_step(asm, models, path: str) -> int:
-    """Write one STEP of the assembly: every gear solid placed in mesh, named."""
-    import cadquery as cq
-
-    from gen.export.step import write_step
-    from gen.geometry.differential import gear_poses
-
-    poses = gear_poses(asm.diff)
-    solids, cache = [], {}
-    for gear, part in asm.parts.items():
-        key = "input" if gear.startswith("input") else "output"
-        if key not in cache:
-            cache[key] = models[part].solid_fn()
-        from OCP.gp import gp_Trsf
-
-        T = poses[gear]
-        trsf = gp_Trsf()
-        trsf.SetValues(*(float(T[i, j]) for i in range(3) for j in range(4)))
-        placed = cache[key].moved(cq.Location(trsf))
-        placed.label = part
-        solids.append(placed)
-    compound = cq.Compound.makeCompound(solids)
-    if len(compound.Solids()) != len(asm.parts) or not all(s.isValid() for s in compound.Solids()):
-        raise GeometryError("assembly STEP: placed solids are not all valid")
-    return write_step(compound, path, asm.name)

@@ -20,7 +20,7 @@ from dataclasses import dataclass, field
 
 from gen import __version__
 from gen.errors import PitchlineError
-from gen.validate.findings import ERROR, Finding, has_errors
+from gen.findings import ERROR, Finding, has_errors
 from gen.params.project import display_path
 
 MANIFEST = "manifest.json"
@@ -56,17 +56,54 @@ def _file_info(path: str, size: int) -> dict:
 
 
 def make_mesh(model):
+    """Triangle mesh of a part: prismatic bodies, or a bevel gear."""
     if model.body is not None:
         from gen.mesh.prism import body_mesh
         return body_mesh(model.body, model.chord_tol)
-    return model.mesh_fn()
+    from gen.mesh.bevel import bevel_mesh
+
+    b = model.bevel
+    return bevel_mesh(b["sizes"], b["bore"], b["flank"], model.chord_tol)
 
 
 def make_solid(model):
+    """CAD solid of a part (imports the kernel)."""
     if model.body is not None:
         from gen.solid.prism import body_solid
         return body_solid(model.body)
-    return model.solid_fn()
+    from gen.solid.bevel import build_bevel_solid
+
+    b = model.bevel
+    return build_bevel_solid(b["sizes"], b["bore"], flank=b["flank"])
+
+
+def assembly_step(asm, models, path: str, out: str | None = None) -> int:
+    """One STEP of an assembly: every gear solid placed in mesh and named after its part.
+
+    Solids already exported this build are read back from their STEP files instead of being
+    rebuilt (the same bytes, so the same geometry)."""
+    import cadquery as cq
+    from OCP.gp import gp_Trsf
+
+    from gen.errors import GeometryError
+    from gen.export.step import read_step, write_step_assembly
+    from gen.geometry.differential import gear_poses
+
+    poses = gear_poses(asm.diff)
+    items, cache = [], {}
+    for gear, part in asm.parts.items():
+        key = "input" if gear.startswith("input") else "output"
+        if key not in cache:
+            done = os.path.join(out, part + ".step") if out else None
+            cache[key] = (read_step(done).Solids()[0] if done and os.path.exists(done)
+                          else make_solid(models[part]))
+        T = poses[gear]
+        trsf = gp_Trsf()
+        trsf.SetValues(*(float(T[i, j]) for i in range(3) for j in range(4)))
+        if not cache[key].isValid():
+            raise GeometryError(f"assembly STEP: the solid of {part} is not valid")
+        items.append((part, cache[key], cq.Location(trsf)))
+    return write_step_assembly(items, path, asm.name)
 
 
 def export_part(model, out: str, formats) -> PartOutcome:
@@ -269,8 +306,6 @@ def _plate(result, out, report, plate) -> None:
 def _assemblies(result, out, formats, report, prev) -> None:
     if "step" not in formats:
         return
-    from gen.assemblies import assembly_step
-
     for asm in result.assemblies:
         parts = [report.outcomes.get(p) for p in asm.parts.values()]
         path = os.path.join(out, asm.name + ".step")
@@ -284,7 +319,7 @@ def _assemblies(result, out, formats, report, prev) -> None:
             t0 = time.perf_counter()
             oc = PartOutcome(key, True)
             try:
-                size = assembly_step(asm, result.models, path)
+                size = assembly_step(asm, result.models, path, out)
                 oc.files["step"] = _file_info(path, size)
             except Exception as exc:  # reported, never a traceback
                 oc.ok, oc.status = False, "failed"

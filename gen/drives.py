@@ -13,7 +13,7 @@ from dataclasses import replace
 
 from gen.errors import GeometryError, ParamError
 from gen.geometry.belt import solve_drive
-from gen.validate.findings import ERROR, Finding
+from gen.findings import ERROR, Finding
 from gen.params.project import display_path
 
 DRIVE_KEYS = ("pulleys", "profile", "teeth", "center_distance", "belt_teeth", "stock", "adjust")

@@ -7,7 +7,7 @@ from dataclasses import replace
 
 from gen.errors import GeometryError, ParamError
 from gen.geometry.pair import mesh_pair, mesh_rack
-from gen.validate.findings import ERROR, Finding
+from gen.findings import ERROR, Finding
 from gen.validate.pair_basic import basic_pair_findings
 from gen.validate.pair_checks import pair_findings
 from gen.validate.sweep import sweep_pair, sweep_rack

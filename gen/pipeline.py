@@ -10,7 +10,7 @@ from dataclasses import dataclass, field, replace
 from gen.errors import ParamError
 from gen.params.project import display_path, RawProject, load_project
 from gen.parts.base import resolve
-from gen.validate.findings import ERROR, Finding, has_errors
+from gen.findings import ERROR, Finding, has_errors
 
 
 @dataclass

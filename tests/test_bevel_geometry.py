@@ -13,7 +13,7 @@ from gen.geometry.section import Arc
 from gen.tolerances import TOL
 from gen.validate import measure
 from gen.validate.bevel_checks import bevel_findings, small_end_tip_land
-from gen.validate.findings import ERROR, WARNING
+from gen.findings import ERROR, WARNING
 
 RACK = basic_rack("A")
 RIGHT = math.pi / 2

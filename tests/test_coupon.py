@@ -10,7 +10,7 @@ import pytest
 from gen.errors import ParamError
 from gen.params.schema import Where, check_mapping
 from gen.validate import measure
-from gen.validate.findings import INFO, has_errors
+from gen.findings import INFO, has_errors
 
 M, Z, BORE, T = 1.5, 18, 5.0, 4.0
 STEPS = (0.0, 0.05, 0.10, 0.15, 0.20)        # the kind's default clearances, mm per flank

@@ -16,7 +16,7 @@ from gen.tolerances import TOL
 from gen.validate import measure
 from gen.validate.bevel_interference import (differential_clearance, differential_findings,
                                              interference_findings)
-from gen.validate.findings import ERROR
+from gen.findings import ERROR
 
 RACK = basic_rack("A")
 

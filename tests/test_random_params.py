@@ -9,7 +9,7 @@ from gen.geometry.modules import SERIES_I, SERIES_II
 from gen.mesh.prism import body_mesh
 from gen.params.project import RawPart
 from gen.parts.base import resolve
-from gen.validate.findings import has_errors
+from gen.findings import has_errors
 
 MODULES = [m for m in SERIES_I + SERIES_II if 0.3 <= m <= 10]
 

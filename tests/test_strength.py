@@ -7,7 +7,7 @@ import pytest
 from gen.errors import ParamError, PitchlineError
 from gen.geometry.basic_rack import basic_rack
 from gen.geometry.cylindrical import gear_sizes
-from gen.validate.findings import ERROR, INFO, WARNING
+from gen.findings import ERROR, INFO, WARNING
 from gen.validate.strength import (CAUTION, KV_FORMS, MATERIALS, PRINTED_KV, Material,
                                    bending_stress, loaded_gear, loaded_rack, mass_grams,
                                    material, pitch_line_velocity, rated_force, rated_torque,

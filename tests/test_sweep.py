@@ -13,7 +13,7 @@ from gen.geometry.gear_outline import gear_loop
 from gen.geometry.generate import generate_flank
 from gen.geometry.pair import mesh_pair, mesh_rack
 from gen.geometry.rack_outline import rack_loop, rack_sizes
-from gen.validate.findings import ERROR, INFO, WARNING, has_errors
+from gen.findings import ERROR, INFO, WARNING, has_errors
 from gen.validate.pair_checks import PAIR_LIMITS, pair_findings
 from gen.validate.sweep import (CLEAR, INTERFERING, SWEEP_TOL, TOUCHING, sweep_pair,
                                 sweep_rack)

@@ -12,7 +12,7 @@ import sys
 from gen.errors import PitchlineError
 from gen.geometry.belt import solve_drive
 from gen.geometry.pulley import PROFILES
-from gen.validate.findings import has_errors
+from gen.findings import has_errors
 
 NAME = "belt"
 

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import sys
 
-from gen.validate.findings import ERROR, INFO, WARNING
+from gen.findings import ERROR, INFO, WARNING
 
 MARK = {ERROR: "ERR ", WARNING: "WARN", INFO: "note"}
 

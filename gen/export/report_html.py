@@ -10,7 +10,7 @@ from dataclasses import dataclass, field
 from html import escape
 
 from gen.geometry.pair import RACK, PairResult
-from gen.validate.findings import Finding
+from gen.findings import Finding
 from gen.validate.sweep import SweepResult
 
 CAUTION = ("These numbers are estimates from the nominal profiles; printed teeth shrink, swell "

@@ -36,9 +36,38 @@ def step_bytes(shape, name: str, workdir: str) -> bytes:
     finally:
         if os.path.exists(tmp):
             os.unlink(tmp)
+    return normalise(data, name)
+
+
+def normalise(data: bytes, name: str) -> bytes:
+    """Fixed time stamp and product names without the writer's session counters."""
     data = _PRODUCT.sub(rb"PRODUCT('\1','\2'", data)
     return _STAMP.sub(lambda m: b"FILE_NAME('" + name.encode() + b"','1970-01-01T00:00:00'",
                       data, count=1)
+
+
+def write_step_assembly(items, path: str, name: str) -> int:
+    """STEP of named, placed solids: ``items`` = [(part name, shape, cadquery Location)].
+
+    Written through the XCAF writer so that every solid keeps its name in CAD."""
+    import cadquery as cq
+    from cadquery.occ_impl.exporters.assembly import exportAssembly
+
+    assy = cq.Assembly(name=name)
+    for part, shape, loc in items:
+        assy.add(shape, name=part, loc=loc)
+    tmp = temp_path(os.path.dirname(os.path.abspath(path)), ".step")
+    try:
+        if not exportAssembly(assy, tmp):
+            raise ExportError(f"STEP assembly write failed for {name}")
+        with open(tmp, "rb") as fh:
+            data = fh.read()
+    finally:
+        if os.path.exists(tmp):
+            os.unlink(tmp)
+    data = normalise(data, name)
+    write_atomic(path, data)
+    return len(data)
 
 
 def write_step(shape, path: str, name: str) -> int:

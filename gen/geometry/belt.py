@@ -23,7 +23,7 @@ from dataclasses import dataclass, field
 
 from gen.errors import GeometryError
 from gen.geometry.pulley import lookup_profile, pulley_sizes
-from gen.validate.findings import ERROR, INFO, WARNING, Finding
+from gen.findings import ERROR, INFO, WARNING, Finding
 
 #: center-distance solution tolerance (mm)
 CENTER_TOL = 1e-9

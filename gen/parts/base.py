@@ -48,12 +48,10 @@ class PartModel:
     chord_tol: float = 0.01
     mesh_check_z: float | None = None   # slice height for mesh_check (default: mid face)
     pulley: dict = field(default_factory=dict)  # belt data for drive checks
-    bevel: dict = field(default_factory=dict)   # bevel sizes and flank
+    bevel: dict = field(default_factory=dict)   # bevel sizes, flank and bore (body is None)
     profile_section: object = None  # the toothed 2-D Section (DXF), when the part has one
     rating: object = None        # callable → strength rating dict (gears)
     helix_check: object = None   # callable(slicer) → findings, for twisted/sheared parts
-    mesh_fn: object = None       # builds the trimesh when ``body`` is None
-    solid_fn: object = None      # builds the CAD solid when ``body`` is None
 
 
 def kind_module(kind: str, where: Where):

@@ -16,7 +16,7 @@ from gen.parts import common_keys as K
 from gen.parts.base import PartModel
 from gen.validate import measure
 from gen.validate.bevel_checks import bevel_findings
-from gen.validate.findings import ERROR, Finding
+from gen.findings import ERROR, Finding
 
 KIND = "bevel_gear"
 BORE = Key("bore", "float", 0.0, lo=0, hi=2000, unit="mm", doc="plain bore diameter (0: none)")
@@ -77,15 +77,6 @@ def bevel_model(name, kind, values, sizes, flank) -> PartModel:
                       findings=findings, chord_tol=chord)
     model.bevel = {"sizes": sizes, "flank": flank, "bore": bore}
 
-    def mesh_fn():
-        from gen.mesh.bevel import bevel_mesh
-        return bevel_mesh(sizes, bore, flank, chord)
-
-    def solid_fn():
-        from gen.solid.bevel import build_bevel_solid
-        return build_bevel_solid(sizes, bore, flank=flank)
-
-    model.mesh_fn, model.solid_fn = mesh_fn, solid_fn
     # slice through the middle of the face, on the pitch cone
     R_mid = sizes.Re - sizes.b / 2.0
     z_mid = sizes.mounting_distance - R_mid * math.cos(sizes.delta)

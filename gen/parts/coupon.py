@@ -37,7 +37,7 @@ from gen.tolerances import TOL
 from gen.parts import common_keys as K
 from gen.parts.base import PartModel
 from gen.validate import measure
-from gen.validate.findings import ERROR, INFO, Finding
+from gen.findings import ERROR, INFO, Finding
 from gen.validate.rack_checks import rack_compare, rack_measure
 
 KIND = "fit_coupon"

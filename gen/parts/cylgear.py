@@ -19,7 +19,7 @@ from gen.geometry.generate import generate_flank
 from gen.geometry.section import Section, circle
 from gen.parts.base import PartModel
 from gen.parts import common_keys as K
-from gen.validate.findings import ERROR, WARNING, Finding
+from gen.findings import ERROR, WARNING, Finding
 from gen.validate.gear_checks import compare_sizes, gear_findings, measured_sizes
 
 GEAR_KEYS = (K.MODULE, K.TEETH, K.PRESSURE_ANGLE, K.PROFILE, K.PROFILE_SHIFT, K.FACE_WIDTH,

@@ -14,7 +14,7 @@ import math
 from gen.geometry.body import Prism, gear_twist, rack_shear
 from gen.geometry.section import Section, circle, moved
 from gen.params.schema import Key
-from gen.validate.findings import ERROR, Finding
+from gen.findings import ERROR, Finding
 
 HELIX = Key("helix_angle", "angle", 20.0, lo=0, hi=60, lo_open=True, hi_open=True, unit="deg",
             doc="reference helix angle β")

@@ -16,7 +16,7 @@ from gen.geometry.section import Section
 from gen.params.schema import REQUIRED, Key
 from gen.parts import common_keys as K
 from gen.parts.base import PartModel
-from gen.validate.findings import ERROR, INFO, Finding
+from gen.findings import ERROR, INFO, Finding
 from gen.geometry.modules import module_series
 from gen.validate.rack_checks import rack_compare, rack_measure
 

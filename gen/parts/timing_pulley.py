@@ -17,7 +17,7 @@ from gen.params.schema import REQUIRED, Key
 from gen.parts import common_keys as K
 from gen.parts.base import PartModel
 from gen.parts.cylgear import bore_of
-from gen.validate.findings import ERROR, WARNING, Finding
+from gen.findings import ERROR, WARNING, Finding
 from gen.validate.pulley_checks import measure_pulley, pulley_findings
 
 KIND = "timing_pulley"

@@ -13,7 +13,7 @@ from gen.geometry.bevel import BevelSizes, virtual_cutter
 from gen.geometry.cylindrical import undercut_limit_shift, undercut_limit_teeth
 from gen.geometry.generate import Flank
 from gen.tolerances import TOL
-from gen.validate.findings import ERROR, INFO, WARNING, Finding
+from gen.findings import ERROR, INFO, WARNING, Finding
 
 #: least top land as a fraction of the (local) module; common practice for through-hardened
 #: gears is s_a ≥ 0.2 m (from memory, handbook rule of thumb)

@@ -33,7 +33,7 @@ from shapely.geometry import Polygon
 from gen.errors import GeometryError
 from gen.geometry.bevel import BevelOutline, BevelSizes, bevel_tooth_outline_3d, virtual_flank
 from gen.geometry.differential import BevelDifferential, apply, gear_poses, pitch_point
-from gen.validate.findings import ERROR, INFO, WARNING, Finding
+from gen.findings import ERROR, INFO, WARNING, Finding
 
 #: overlap thicker than this (× module, estimated as 2·area/perimeter) is an interference error;
 #: it lies above the Tredgold and chord errors of correct zero-backlash teeth

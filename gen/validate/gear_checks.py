@@ -12,7 +12,7 @@ from gen.geometry.involute import half_thickness_angle
 from gen.geometry.modules import module_series
 from gen.tolerances import TOL
 from gen.validate import measure
-from gen.validate.findings import ERROR, INFO, WARNING, Finding
+from gen.findings import ERROR, INFO, WARNING, Finding
 
 ISO21771 = "ISO 21771 sizes"
 MIN_TEETH, MAX_TEETH = 6, 400

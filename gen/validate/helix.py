@@ -20,7 +20,7 @@ import math
 import numpy as np
 
 from gen.errors import GeometryError
-from gen.validate.findings import ERROR, INFO, Finding
+from gen.findings import ERROR, INFO, Finding
 from gen.validate.measure import material_arcs, rack_teeth_on_line
 
 #: allowed difference between the measured and the expected section turn (rad) = 0.05°

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import math
 
-from gen.validate.findings import ERROR, Finding
+from gen.findings import ERROR, Finding
 
 
 def tooth_system(tooth: dict) -> tuple[float, float, float]:

@@ -25,7 +25,7 @@ from dataclasses import dataclass
 
 from gen.geometry.pair import RACK, PairResult
 from gen.tolerances import TOL
-from gen.validate.findings import ERROR, INFO, WARNING, Finding
+from gen.findings import ERROR, INFO, WARNING, Finding
 from gen.validate.sweep import INTERFERING, SweepResult
 
 SOURCE_FORMULA = "ISO 21771 mesh relations"

@@ -19,7 +19,7 @@ from gen.geometry.pulley import lookup_profile, pulley_sizes
 from gen.geometry.section import Loop, signed_area
 from gen.tolerances import TOL
 from gen.validate import measure
-from gen.validate.findings import ERROR, INFO, WARNING, Finding
+from gen.findings import ERROR, INFO, WARNING, Finding
 
 #: largest allowed distance between consecutive curve ends of an outline (mm)
 GAP_TOL = 1e-9

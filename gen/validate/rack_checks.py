@@ -6,7 +6,7 @@ import numpy as np
 
 from gen.geometry.rack_outline import RackSizes
 from gen.validate import measure
-from gen.validate.findings import ERROR, Finding
+from gen.findings import ERROR, Finding
 
 
 def rack_measure(poly: np.ndarray, sizes: RackSizes) -> dict:

@@ -21,7 +21,7 @@ from gen.errors import ParamError, PitchlineError
 from gen.geometry.basic_rack import BasicRack
 from gen.geometry.cylindrical import GearSizes
 from gen.geometry.lewis import lewis_gear, lewis_rack
-from gen.validate.findings import ERROR, INFO, WARNING, Finding
+from gen.findings import ERROR, INFO, WARNING, Finding
 
 #: text for reports and part summaries
 CAUTION = ("Strength figures are estimates only (Lewis bending formula, conservative material "

@@ -1,4 +1,7 @@
-"""Findings: what validation says about a part, a pair or an assembly."""
+"""Findings: what validation says about a part, a pair, a drive or an assembly.
+
+A leaf module (like :mod:`gen.errors`) so every layer can report without importing upward.
+"""
 
 from __future__ import annotations
 
