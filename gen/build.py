@@ -255,6 +255,9 @@ def build(result, out: str, formats, *, force: bool = False, jobs: int = 1,
     if jobs > 1 and len(todo) > 1:
         import multiprocessing as mp
 
+        if "step" in formats:
+            import cadquery  # noqa: F401  (load the kernel once; the forked workers share it)
+
         _JOB.update(models=models, out=out, formats=tuple(formats))
         ctx = mp.get_context("fork")
         with ctx.Pool(min(jobs, len(todo))) as pool:
