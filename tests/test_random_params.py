@@ -62,3 +62,31 @@ def test_random_gear_solid_is_valid(values):
     assert solid.isValid()
     mesh = body_mesh(model.body, model.chord_tol)
     assert math.isclose(solid.Volume(), mesh.volume, rel_tol=5e-3)
+
+
+@st.composite
+def helical_params(draw):
+    values = draw(gear_params())
+    values["helix_angle"] = draw(st.sampled_from([8.0, 15.0, 22.5, 30.0, 45.0]))
+    values["hand"] = draw(st.sampled_from(["right", "left"]))
+    return draw(st.sampled_from(["helical_gear", "herringbone_gear"])), values
+
+
+@settings(max_examples=25, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@given(helical_params())
+def test_random_helical_gear_validates_or_is_refused(kind_values):
+    kind, values = kind_values
+    raw = RawPart(name="h", kind=kind, values=values, file="random.yaml", train=None,
+                  lines={None: 1})
+    model = resolve(raw)
+    if has_errors(model.findings):
+        assert all(f.code and f.message for f in model.findings)
+        return
+    from gen.mesh.prism import slice_polygons
+
+    mesh = body_mesh(model.body, model.chord_tol)
+    assert mesh.is_watertight and mesh.volume > 0
+    z = model.mesh_check_z if model.mesh_check_z is not None else values["face_width"] / 2
+    assert not has_errors(model.mesh_check(slice_polygons(mesh, z), z))
+    # the helix measured on the mesh (Δθ = Δz tan β / r_p within 0.05°)
+    assert not has_errors(model.helix_check(lambda zz: slice_polygons(mesh, zz)))

@@ -15,7 +15,6 @@ _PRODUCT = re.compile(rb"PRODUCT\('([^']*?) \d+','([^']*?) \d+'")
 
 def step_bytes(shape, name: str, workdir: str) -> bytes:
     """STEP text of ``shape`` with the product named ``name`` and a fixed time stamp."""
-    import cadquery as cq  # noqa: F401  (kernel loaded only when a STEP is made)
     from OCP.IFSelect import IFSelect_RetDone
     from OCP.Interface import Interface_Static
     from OCP.STEPControl import STEPControl_AsIs, STEPControl_Writer
@@ -27,16 +26,21 @@ def step_bytes(shape, name: str, workdir: str) -> bytes:
     for s in shapes:
         if writer.Transfer(s.wrapped, STEPControl_AsIs) != IFSelect_RetDone:
             raise ExportError(f"STEP transfer failed for {name}")
+    data = _through_file(workdir, lambda tmp: writer.Write(tmp) == IFSelect_RetDone, name)
+    return normalise(data, name)
+
+
+def _through_file(workdir: str, write, name: str) -> bytes:
+    """Bytes of a file the kernel writes by name (``write(path) -> ok``); no file is left."""
     tmp = temp_path(workdir, ".step")
     try:
-        if writer.Write(tmp) != IFSelect_RetDone:
+        if not write(tmp):
             raise ExportError(f"STEP write failed for {name}")
         with open(tmp, "rb") as fh:
-            data = fh.read()
+            return fh.read()
     finally:
         if os.path.exists(tmp):
             os.unlink(tmp)
-    return normalise(data, name)
 
 
 def normalise(data: bytes, name: str) -> bytes:
@@ -56,15 +60,8 @@ def write_step_assembly(items, path: str, name: str) -> int:
     assy = cq.Assembly(name=name)
     for part, shape, loc in items:
         assy.add(shape, name=part, loc=loc)
-    tmp = temp_path(os.path.dirname(os.path.abspath(path)), ".step")
-    try:
-        if not exportAssembly(assy, tmp):
-            raise ExportError(f"STEP assembly write failed for {name}")
-        with open(tmp, "rb") as fh:
-            data = fh.read()
-    finally:
-        if os.path.exists(tmp):
-            os.unlink(tmp)
+    data = _through_file(os.path.dirname(os.path.abspath(path)),
+                         lambda tmp: exportAssembly(assy, tmp), name)
     data = normalise(data, name)
     write_atomic(path, data)
     return len(data)
