@@ -73,3 +73,65 @@ def test_assembly_outputs(tmp_path, write_yaml):
     # outer (tip) diameter = de + 2 ha cos δ (ISO 23509 conventions, from memory)
     r = max(abs(mesh.bounds[0][0]), mesh.bounds[1][0])
     assert 2 * r == pytest.approx(30 + 2 * 1.5 * math.cos(math.pi / 4), abs=0.02)
+
+
+def test_bevel_stl_tooth_height_scales_with_cone_distance(tmp_path, write_yaml):
+    # straight bevel teeth taper to the apex: the tooth height at cone distance R is
+    # h(R) = h(Re)·R/Re, so small end / large end = Ri/Re (ISO 23509 conventions, from memory)
+    import numpy as np
+    import trimesh
+
+    text = "parts:\n  b: {kind: bevel_gear, module: 2, teeth: 20, mating_teeth: 40, face_width: 12}\n"
+    out = tmp_path / "o"
+    assert main(["build", write_yaml(text), "--out", str(out), "--format", "stl"]) == 0
+    res = check([str(tmp_path / "parts.yaml")])
+    s = res.models["b"].bevel["sizes"]
+    mesh = trimesh.load(out / "b.stl")
+    v = mesh.vertices - [0.0, 0.0, s.mounting_distance]           # apex at the origin
+    R = np.linalg.norm(v, axis=1)
+    phi = np.arccos(np.clip(-v[:, 2] / R, -1, 1))                 # angle from the axis
+    band = (phi > s.delta_f - 1e-6) & (phi < s.delta_a + 1e-6)    # between root and tip cones
+
+    def height(r0):
+        sel = band & (np.abs(R - r0) < 0.02 * s.Re)
+        return float((phi[sel].max() - phi[sel].min()) * r0)
+
+    h_large, h_small = height(s.Re - 0.03 * s.b), height(s.Ri + 0.03 * s.b)
+    ratio = (s.Ri + 0.03 * s.b) / (s.Re - 0.03 * s.b)
+    assert h_small / h_large == pytest.approx(ratio, rel=0.02)
+    # large-end height = addendum + dedendum = 2.25 m (ISO 53 profile A, from memory)
+    assert h_large == pytest.approx(2.25 * 2 * (s.Re - 0.03 * s.b) / s.Re, rel=0.03)
+
+
+def test_placed_gear_meshes_do_not_overlap(tmp_path, write_yaml):
+    # independent of the spherical-section check: intersect the exported gear meshes placed
+    # by the assembly poses (manifold3d booleans); at rest and half a pitch on, nothing overlaps
+    import math as _m
+
+    import manifold3d as m3d
+    import numpy as np
+    import trimesh
+
+    from gen.geometry.differential import gear_poses
+
+    out = tmp_path / "o"
+    assert main(["build", write_yaml(WRIST.format(outputs=1, extra="")), "--out", str(out),
+                 "--format", "stl"]) == 0
+    asm = check([str(tmp_path / "parts.yaml")]).assemblies[0]
+    meshes = {g: trimesh.load(out / f"{p}.stl") for g, p in asm.parts.items()}
+
+    def placed(g, T):
+        m = meshes[g].copy()
+        m.apply_transform(T)
+        return m3d.Manifold(m3d.Mesh(np.asarray(m.vertices, np.float32), np.asarray(m.faces, np.uint32)))
+
+    for t in (0.0, 0.5 * 2 * _m.pi / 20):
+        poses = gear_poses(asm.diff, t, -t)
+        out1 = placed("output_1", poses["output_1"])
+        for g in ("input_1", "input_2"):
+            inter = placed(g, poses[g]) ^ out1
+            assert inter.volume() < 1e-3, (g, t, inter.volume())
+    # and the same check does see an overlap when the output sits 0.3 m too deep
+    poses = gear_poses(asm.diff, 0.0, 0.0, axial_shift={"output_1": 0.45})
+    inter = placed("input_1", poses["input_1"]) ^ placed("output_1", poses["output_1"])
+    assert inter.volume() > 0.05
