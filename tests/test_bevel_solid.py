@@ -7,7 +7,7 @@ import pytest
 from gen.geometry.basic_rack import basic_rack
 from gen.geometry.bevel import bevel_sizes
 
-cq = pytest.importorskip("cadquery")
+import cadquery as cq  # noqa: E402
 
 M, Z, ZM, B, BORE = 2.0, 20, 40, 14.0, 8.0
 

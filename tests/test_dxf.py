@@ -14,7 +14,7 @@ import pytest
 from gen.export.dxf import write_dxf
 from gen.params.schema import Where, check_mapping
 
-ezdxf = pytest.importorskip("ezdxf")
+import ezdxf  # noqa: E402  (a dependency: fail loudly when missing)
 ROOT = os.path.dirname(os.path.dirname(os.path.abspath(__file__)))
 M, Z, BORE = 2.0, 20, 6.0
 

@@ -14,7 +14,7 @@ import numpy as np
 import pytest
 import trimesh
 
-cq = pytest.importorskip("cadquery")
+import cadquery as cq  # noqa: E402
 
 from gen.geometry.basic_rack import basic_rack  # noqa: E402
 from gen.geometry.body import Body, Prism, gear_twist, rack_shear  # noqa: E402
