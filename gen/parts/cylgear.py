@@ -5,6 +5,7 @@ Each kind module (``spur_gear.py`` …) declares its keys and calls :func:`make_
 
 from __future__ import annotations
 
+import functools
 import math
 
 import numpy as np
@@ -105,7 +106,8 @@ def make_gear(name: str, values: dict, where, *, kind: str, beta: float = 0.0,
         model.tooth.update(hand=hand, chevron=chevron)
         if chevron:
             model.mesh_check_z = b / 4.0  # inside the lower half, clear of any groove
-    model.rating = lambda: gear_rating(name, values, sizes, rack)
+    # computed on first use (a mesh with a declared torque, or the manifest), then kept
+    model.rating = functools.lru_cache(maxsize=1)(lambda: gear_rating(name, values, sizes, rack))
     return model
 
 
