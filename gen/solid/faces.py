@@ -1,0 +1,239 @@
+"""Direct construction of B-rep faces that share their edges: the twisted-prism shell.
+
+Every section curve becomes a NURBS curve with control points Q_i. Its lateral face over one
+stage [z_a, z_b] is the tensor-product B-spline surface with control points
+
+    P_ij = Σ_k A_jk · (R(θ(z_k)) Q_i + (s(z_k), 0), z_k),
+
+A inverting the collocation matrix of a clamped cubic B-spline in v = z at its Greville points
+z_k. Adjacent faces share their boundary iso-curves as one edge with line pcurves on both, so
+the shell is closed by construction; the herringbone halves share the mid-section edges, and
+the caps are planes bounded by the same edges.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+import numpy as np
+
+from gen.geometry.body import Prism
+
+from gen.solid.helix_fit import place, vfit
+from gen.solid.kernel import KERNEL_TOL, occ
+from gen.solid.nurbs import Nurbs
+
+class Builder:
+    """Thin wrapper over BRep_Builder for shapes whose edges are shared by construction."""
+
+    def __init__(self):
+        self.o = o = occ()
+        self.b = o.BRep_Builder()
+        self.loc = o.TopLoc_Location()
+
+    def reals(self, vals):
+        a = self.o.TColStd_Array1OfReal(1, len(vals))
+        for i, v in enumerate(vals, 1):
+            a.SetValue(i, float(v))
+        return a
+
+    def ints(self, vals):
+        a = self.o.TColStd_Array1OfInteger(1, len(vals))
+        for i, v in enumerate(vals, 1):
+            a.SetValue(i, int(v))
+        return a
+
+    def vertex(self, x, y, z, tol: float = KERNEL_TOL):
+        v = self.o.TopoDS_Vertex()
+        self.b.MakeVertex(v, self.o.gp_Pnt(float(x), float(y), float(z)), tol)
+        return v
+
+    def edge(self, curve, v0, v1, t0, t1):
+        o, b = self.o, self.b
+        e = o.TopoDS_Edge()
+        b.MakeEdge(e, curve, KERNEL_TOL)
+        b.Add(e, v0.Oriented(o.TopAbs_FORWARD))
+        b.Add(e, v1.Oriented(o.TopAbs_REVERSED))
+        b.Range(e, float(t0), float(t1))
+        return e
+
+    def curve3d(self, nb: Nurbs, x, y, z):
+        o = self.o
+        P = o.TColgp_Array1OfPnt(1, len(x))
+        for i in range(len(x)):
+            P.SetValue(i + 1, o.gp_Pnt(float(x[i]), float(y[i]), float(z)))
+        K, M = self.reals(nb.knots), self.ints(nb.mults)
+        if nb.weights is not None:
+            return o.Geom_BSplineCurve(P, self.reals(nb.weights), K, M, nb.deg)
+        return o.Geom_BSplineCurve(P, K, M, nb.deg)
+
+    def curve2d(self, nb: Nurbs, x, y):
+        o = self.o
+        P = o.TColgp_Array1OfPnt2d(1, len(x))
+        for i in range(len(x)):
+            P.SetValue(i + 1, o.gp_Pnt2d(float(x[i]), float(y[i])))
+        K, M = self.reals(nb.knots), self.ints(nb.mults)
+        if nb.weights is not None:
+            return o.Geom2d_BSplineCurve(P, self.reals(nb.weights), K, M, nb.deg)
+        return o.Geom2d_BSplineCurve(P, K, M, nb.deg)
+
+    def pcurve(self, edge, curve2d, surface):
+        self.b.UpdateEdge(edge, curve2d, surface, self.loc, KERNEL_TOL)
+
+    def iso_line(self, u=None, v=None):
+        o = self.o
+        if u is None:  # constant v, parameter = u
+            return o.Geom2d_Line(o.gp_Pnt2d(0.0, float(v)), o.gp_Dir2d(1.0, 0.0))
+        return o.Geom2d_Line(o.gp_Pnt2d(float(u), 0.0), o.gp_Dir2d(0.0, 1.0))
+
+    def wire(self, edges_and_senses):
+        o, b = self.o, self.b
+        w = o.TopoDS_Wire()
+        b.MakeWire(w)
+        for e, forward in edges_and_senses:
+            b.Add(w, e.Oriented(o.TopAbs_FORWARD if forward else o.TopAbs_REVERSED))
+        w.Closed(True)
+        return w
+
+    def face(self, surface, wires):
+        f = self.o.TopoDS_Face()
+        self.b.MakeFace(f, surface, KERNEL_TOL)
+        for w in wires:
+            self.b.Add(f, w)
+        return f
+
+    def plane(self, z):
+        o = self.o
+        return o.Geom_Plane(o.gp_Ax3(o.gp_Pnt(0.0, 0.0, float(z)), o.gp_Dir(0.0, 0.0, 1.0),
+                                     o.gp_Dir(1.0, 0.0, 0.0)))
+
+    def solid(self, faces):
+        o, b = self.o, self.b
+        sh = o.TopoDS_Shell()
+        b.MakeShell(sh)
+        for f in faces:
+            b.Add(sh, f)
+        sh.Closed(True)
+        so = o.TopoDS_Solid()
+        b.MakeSolid(so)
+        b.Add(so, sh)
+        return so
+
+
+@dataclass(eq=False)
+class Track:
+    """One section loop and how it moves: the prism's motion, or none (straight)."""
+
+    curves: list          # Nurbs, oriented (outer ccw, holes cw)
+    prism: Prism | None   # None: straight
+    rho: float            # largest control-point radius (mm), for the helix fit
+
+    def levels(self, z0, z1):
+        if self.prism is None:
+            return [z0, z1]
+        st = self.prism.stages()
+        return [st[0][0]] + [s[1] for s in st]
+
+    def theta(self, z) -> float:
+        return 0.0 if self.prism is None else float(self.prism.motion(z)[0])
+
+    def at(self, z):
+        if self.prism is None:
+            return 1.0, 0.0, 0.0
+        th, s = self.prism.motion(z)
+        return math.cos(float(th)), math.sin(float(th)), float(s)
+
+
+def lateral_shell(tracks: list, z0: float, z1: float):
+    """Closed solid from moving loops: lateral B-spline faces + two planar caps."""
+    bld = Builder()
+    faces = []
+    horiz = []  # per track: {level index: [(edge, pole x, pole y, start vertex), ...]}
+    for tr in tracks:
+        levels = tr.levels(z0, z1)
+        per = {}
+        for k, z in enumerate(levels):
+            c, s, t = tr.at(z)
+            verts = []
+            for nb in tr.curves:
+                x, y = place(nb.poles[:1], c, s, t)
+                verts.append(bld.vertex(x[0, 0], y[0, 0], z))
+            row = []
+            for i, nb in enumerate(tr.curves):
+                x, y = place(nb.poles, c, s, t)
+                x, y = x[:, 0], y[:, 0]
+                e = bld.edge(bld.curve3d(nb, x, y, z), verts[i], verts[(i + 1) % len(verts)],
+                             nb.knots[0], nb.knots[-1])
+                row.append((e, x, y, verts[i]))
+            per[k] = row
+        horiz.append(per)
+        for k in range(len(levels) - 1):
+            faces.extend(_stage_faces(bld, tr, levels[k], levels[k + 1], per[k], per[k + 1]))
+    for k_end, z, top in ((0, z0, False), (-1, z1, True)):
+        pl = bld.plane(z)
+        wires = []
+        for tr, per in zip(tracks, horiz):
+            row = per[len(per) - 1 if k_end == -1 else 0]
+            for (e, x, y, _), nb in zip(row, tr.curves):
+                bld.pcurve(e, bld.curve2d(nb, x, y), pl)
+            wires.append(bld.wire([(e, True) for e, *_ in row]))
+        f = bld.face(pl, wires)
+        faces.append(f if top else f.Reversed())
+    return bld.solid(faces)
+
+
+def _stage_faces(bld: Builder, tr: Track, za: float, zb: float, low, high):
+    o = bld.o
+    ca, sa, ta = tr.at(za)
+    cb, sb, tb = tr.at(zb)
+    fit = vfit(za, zb, tr.theta(zb) - tr.theta(za), tr.rho)
+    if fit.deg == 1:
+        Mc, Ms, Tv, Zv = np.array([ca, cb]), np.array([sa, sb]), np.array([ta, tb]), fit.zs
+    else:
+        cos_k, sin_k, sh_k = [], [], []
+        for z in fit.zs:
+            c, s, t = tr.at(z)
+            cos_k.append(c), sin_k.append(s), sh_k.append(t)
+        Mc, Ms, Tv, Zv = fit.A @ cos_k, fit.A @ sin_k, fit.A @ sh_k, fit.A @ fit.zs
+        Mc[0], Ms[0], Tv[0], Zv[0] = ca, sa, ta, za  # ends exactly on the level curves
+        Mc[-1], Ms[-1], Tv[-1], Zv[-1] = cb, sb, tb, zb
+    VK, VM = bld.reals(fit.knots), bld.ints(fit.mults)
+    nv = len(Zv)
+    n = len(tr.curves)
+    vert = []  # vertical edge at the start of each curve
+    for i, nb in enumerate(tr.curves):
+        x, y = place(nb.poles[:1], Mc[None, :], Ms[None, :], Tv[None, :])
+        P = o.TColgp_Array1OfPnt(1, nv)
+        for j in range(nv):
+            P.SetValue(j + 1, o.gp_Pnt(float(x[0, j]), float(y[0, j]), float(Zv[j])))
+        vert.append(bld.edge(o.Geom_BSplineCurve(P, VK, VM, fit.deg), low[i][3], high[i][3],
+                             za, zb))
+    faces = []
+    for i, nb in enumerate(tr.curves):
+        X, Y = place(nb.poles, Mc[None, :], Ms[None, :], Tv[None, :])
+        nu = len(nb.poles)
+        P = o.TColgp_Array2OfPnt(1, nu, 1, nv)
+        for a in range(nu):
+            xa, ya = X[a], Y[a]
+            for j in range(nv):
+                P.SetValue(a + 1, j + 1, o.gp_Pnt(float(xa[j]), float(ya[j]), float(Zv[j])))
+        UK, UM = bld.reals(nb.knots), bld.ints(nb.mults)
+        if nb.weights is not None:
+            W = o.TColStd_Array2OfReal(1, nu, 1, nv)
+            for a in range(nu):
+                for j in range(nv):
+                    W.SetValue(a + 1, j + 1, float(nb.weights[a]))
+            S = o.Geom_BSplineSurface(P, W, UK, VK, UM, VM, nb.deg, fit.deg)
+        else:
+            S = o.Geom_BSplineSurface(P, UK, VK, UM, VM, nb.deg, fit.deg)
+        u0, u1 = nb.knots[0], nb.knots[-1]
+        eb, et = low[i][0], high[i][0]
+        el, er = vert[i], vert[(i + 1) % n]
+        bld.pcurve(eb, bld.iso_line(v=za), S)
+        bld.pcurve(et, bld.iso_line(v=zb), S)
+        bld.pcurve(el, bld.iso_line(u=u0), S)
+        bld.pcurve(er, bld.iso_line(u=u1), S)
+        faces.append(bld.face(S, [bld.wire([(eb, True), (er, True), (et, False), (el, False)])]))
+    return faces
+

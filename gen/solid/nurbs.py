@@ -1,0 +1,125 @@
+"""Section curves as NURBS data: fitted B-spline flanks, rational arcs, lines, oriented loops."""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+import numpy as np
+
+from gen.errors import GeometryError
+from gen.geometry.section import Arc, Line, Loop, Spline, signed_area
+
+from gen.solid.kernel import JUNCTION_GAP, KERNEL_TOL, SPLINE_FIT, occ
+
+@dataclass(eq=False)
+class Nurbs:
+    """A planar NURBS curve in OCC's form: degree, poles (n, 2), weights or None, knots, mults."""
+
+    deg: int
+    poles: np.ndarray
+    weights: np.ndarray | None
+    knots: np.ndarray
+    mults: list
+
+
+def spline_nurbs(points: np.ndarray) -> Nurbs:
+    """Cubic C2 B-spline within :data:`SPLINE_FIT` of the section samples (end points kept).
+
+    ``GeomAPI_PointsToBSpline`` needs 2.6× fewer poles than interpolating every sample
+    (``GeomAPI_Interpolate``: 26 and 42 poles for the 24- and 40-sample flank pieces of
+    the bench gear, against 16 and 10), and so fewer STEP entities, for a curve within
+    1e-6 mm of the interpolant (measured).
+    """
+    o = occ()
+    p = np.asarray(points, dtype=float)
+    pts = o.TColgp_Array1OfPnt(1, len(p))
+    for i, (x, y) in enumerate(p, 1):
+        pts.SetValue(i, o.gp_Pnt(float(x), float(y), 0.0))
+    fit = o.GeomAPI_PointsToBSpline(pts, 3, 3, o.GeomAbs_C2, SPLINE_FIT)
+    if not fit.IsDone():
+        raise GeometryError("could not fit a B-spline through the section points")
+    c = fit.Curve()
+    poles = np.array([[c.Pole(i).X(), c.Pole(i).Y()] for i in range(1, c.NbPoles() + 1)])
+    if max(np.hypot(*(poles[0] - p[0])), np.hypot(*(poles[-1] - p[-1]))) > SPLINE_FIT:
+        raise GeometryError("the section spline fit moved a curve end")
+    poles[0], poles[-1] = p[0], p[-1]
+    knots = np.array([c.Knot(i) for i in range(1, c.NbKnots() + 1)])
+    mults = [c.Multiplicity(i) for i in range(1, c.NbKnots() + 1)]
+    return Nurbs(c.Degree(), poles, None, knots, mults)
+
+
+def _arc_nurbs(a: Arc) -> Nurbs:
+    """Rational quadratic arc: spans ≤ 90°, middle weight cos(Δ/2) (the standard conic form)."""
+    span = a.a1 - a.a0
+    n = max(1, int(math.ceil(abs(span) / (0.5 * math.pi) - 1e-9)))
+    d = span / n
+    ang = a.a0 + 0.5 * d * np.arange(2 * n + 1)
+    rad = np.full(2 * n + 1, float(a.radius))
+    rad[1::2] /= math.cos(0.5 * d)
+    poles = np.column_stack([a.center[0] + rad * np.cos(ang), a.center[1] + rad * np.sin(ang)])
+    w = np.ones(2 * n + 1)
+    w[1::2] = math.cos(0.5 * d)
+    knots = np.arange(n + 1, dtype=float) * abs(d) * a.radius  # parameter ≈ arc length
+    return Nurbs(2, poles, w, knots, [3] + [2] * (n - 1) + [3])
+
+
+def _line_nurbs(seg: Line) -> Nurbs:
+    p = np.array([seg.p0, seg.p1], dtype=float)
+    return Nurbs(1, p, None, np.array([0.0, float(np.hypot(*(p[1] - p[0])))]), [2, 2])
+
+
+def _reversed(c):
+    if isinstance(c, Spline):
+        return Spline(np.asarray(c.points)[::-1])
+    if isinstance(c, Arc):
+        return Arc(c.center, c.radius, c.a1, c.a0)
+    return Line(c.p1, c.p0)
+
+
+def _split_closed(c):
+    """A curve that closes on itself (full circle, closed spline) as two open halves."""
+    if isinstance(c, Arc):
+        if abs(c.a1 - c.a0) < 2.0 * math.pi - 1e-12:
+            return [c]
+        m = 0.5 * (c.a0 + c.a1)
+        return [Arc(c.center, c.radius, c.a0, m), Arc(c.center, c.radius, m, c.a1)]
+    if isinstance(c, Spline) and np.hypot(*(c.start - c.end)) < JUNCTION_GAP:
+        k = len(c.points) // 2
+        return [Spline(c.points[: k + 1]), Spline(c.points[k:])]
+    return [c]
+
+
+def oriented_curves(loop: Loop, ccw: bool, tol: float = 1e-3) -> list:
+    curves = list(loop.curves)
+    if (signed_area(loop.polygon(tol)) > 0) != ccw:
+        curves = [_reversed(c) for c in curves[::-1]]
+    out = []
+    for c in curves:
+        out.extend(_split_closed(c))
+    gap = Loop(tuple(out)).gaps()
+    if gap > JUNCTION_GAP:
+        raise GeometryError(f"section loop is not closed: a {gap:.3g} mm gap between curves")
+    return out
+
+
+def loop_nurbs(loop: Loop, ccw: bool) -> list:
+    out = []
+    for c in oriented_curves(loop, ccw):
+        if isinstance(c, Spline):
+            out.append(spline_nurbs(c.points))
+        elif isinstance(c, Arc):
+            out.append(_arc_nurbs(c))
+        else:
+            out.append(_line_nurbs(c))
+    for i in range(len(out)):  # one junction point, bit for bit, per pair of curves
+        out[i].poles[0] = out[i - 1].poles[-1]
+    return out
+
+
+def rotation_invariant(loop: Loop) -> bool:
+    """A circle (or arcs of one circle) about the axis: unchanged by any twist."""
+    cs = loop.curves
+    return all(isinstance(c, Arc) and math.hypot(*c.center) < KERNEL_TOL
+               and abs(c.radius - cs[0].radius) < KERNEL_TOL for c in cs)
+
