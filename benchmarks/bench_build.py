@@ -54,7 +54,7 @@ def main():
         import io
 
         from gen.build import Progress, build
-        from gen.pipeline import check
+        from gen.check import check
 
         quiet = Progress(8, stream=io.StringIO(), enabled=False)
 

@@ -30,9 +30,9 @@ def main():
 
     from gen.export.step import write_step
     from gen.export.stl import write_stl
-    from gen.mesh.prism import body_mesh
+    from gen.triangles.prism import body_triangles
     from gen.params.project import RawPart
-    from gen.parts.base import resolve
+    from gen.kinds.base import resolve
     from gen.solid.prism import body_solid
 
     out = tempfile.mkdtemp()
@@ -43,8 +43,8 @@ def main():
         raw = RawPart("g", "spur_gear", values, "bench.yaml", None, {None: 1})
         t_prof = best(lambda: resolve(raw))
         model = resolve(raw)
-        t_stl = best(lambda: write_stl(body_mesh(model.body, 0.01), os.path.join(out, "g.stl")))
-        t_step = best(lambda: write_step(body_solid(model.body), os.path.join(out, "g.step"), "g"))
+        t_stl = best(lambda: write_stl(body_triangles(model.shape, 0.01), os.path.join(out, "g.stl")))
+        t_step = best(lambda: write_step(body_solid(model.shape), os.path.join(out, "g.step"), "g"))
         print(f"{z:>5} {t_prof:>8.3f}s {t_stl:>8.3f}s {t_step:>10.3f}s "
               f"{t_prof + t_stl + t_step:>6.2f}s")
 

@@ -97,7 +97,7 @@ def rack_body(chevron: bool):
 
 
 def run_case(make, tmp: str, runs: int) -> dict:
-    from gen.mesh.prism import body_mesh
+    from gen.triangles.prism import body_triangles
     from gen.solid.prism import body_solid
 
     best: dict = {}
@@ -118,7 +118,7 @@ def run_case(make, tmp: str, runs: int) -> dict:
         solid.exportStep(os.path.join(tmp, "part.step"))
         r["step"] = T() - t
         t = T()
-        mesh = body_mesh(body, tol=0.01)
+        mesh = body_triangles(body, tol=0.01)
         r["mesh"] = T() - t
         t = T()
         mesh.export(os.path.join(tmp, "part.stl"))

@@ -10,13 +10,15 @@ class PitchlineError(Exception):
 class ParamError(PitchlineError):
     """A parameter file value is missing, malformed or out of range.
 
-    The message names the file, line, part, key, value and what is allowed, in one line.
+    The message names the file, line, section entry (a part, mesh, drive, assembly, fit …),
+    key, value and what is allowed, in one line.
     """
 
     def __init__(self, message: str, *, file: str | None = None, line: int | None = None,
                  part: str | None = None, key: str | None = None, value=None,
-                 allowed: str | None = None):
+                 allowed: str | None = None, section: str = "part"):
         self.file, self.line, self.part, self.key = file, line, part, key
+        self.section = section
         self.value, self.allowed, self.detail = value, allowed, message
         super().__init__(self.one_line())
 
@@ -26,7 +28,7 @@ class ParamError(PitchlineError):
             where += f":{self.line}"
         bits = [where]
         if self.part:
-            bits.append(f"part '{self.part}'")
+            bits.append(f"{self.section} '{self.part}'")
         if self.key:
             bits.append(f"key '{self.key}'")
         text = ", ".join(bits) + ": " + self.detail

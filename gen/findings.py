@@ -10,6 +10,89 @@ from dataclasses import asdict, dataclass
 ERROR, WARNING, INFO = "error", "warning", "info"
 _RANK = {ERROR: 0, WARNING: 1, INFO: 2}
 
+#: every finding code, kebab-case, with what it is about. A Finding with a code not listed
+#: here is refused, so codes keep one spelling and reports and tests can rely on them.
+CODES = {
+    # parameters and export
+    "parameter": "a parameter file value is missing, malformed or out of range",
+    "export": "writing or building an output failed",
+    "no-profile": "the part has no flat profile for a 2-D format",
+    "plate": "laying parts out on the build plate failed",
+    # part geometry measured against formulas
+    "size-mismatch": "a measured size differs from its formula",
+    "tooth-count": "the counted teeth differ from the declared count",
+    "pitch": "the measured angular pitch is not uniform",
+    "teeth-range": "an unusual tooth count",
+    "undercut": "the rack-generated flank is undercut",
+    "pointed-tip": "the tooth comes to a point",
+    "thin-tip": "the tip land is thin",
+    "tip-land": "tip land of a bevel gear",
+    "full-round-root": "the root fillet is a full round",
+    "thin-rim": "the rim under the teeth is thin",
+    "module-series": "the module is not in the ISO 54 / DIN 780 preferred series",
+    "face-vs-module": "the face width is small for the module",
+    "face-width": "bevel face width against its limit",
+    "hub-too-big": "the hub reaches the root circle",
+    "hub-too-thin": "the hub leaves no wall around the bore",
+    "bore-too-big": "the bore leaves too little material",
+    "bore-too-big-for-hub": "the bore leaves too little hub wall",
+    "below-min-feature": "a feature is under the fit profile's smallest printable feature",
+    "helix": "the measured helix differs from the helix angle",
+    "helix-turn": "the measured turn between two slices differs from the helix",
+    "herringbone-mirror": "the two herringbone halves do not mirror",
+    # pulleys and belts
+    "small-pulley": "the pulley is under its profile's minimum tooth count",
+    "set-screw-needs-hub": "set screws need a hub",
+    "set-screw-too-big": "the set screw does not fit the hub",
+    "groove-count": "the counted grooves differ from the tooth count",
+    "groove-depth": "the groove depth differs from its profile",
+    "groove-source": "where a groove profile's data come from",
+    "groove-spacing": "the groove spacing is not uniform",
+    "outside-diameter": "the outside diameter differs from its formula",
+    "outline-gap": "the outline does not close",
+    "outline-invalid": "the outline is not a valid polygon",
+    "outline-orientation": "the outline runs the wrong way",
+    "below-min-teeth": "a pulley is under its profile's minimum tooth count",
+    "few-teeth-in-mesh": "too few belt teeth in mesh on the small pulley",
+    "not-in-stock": "the belt is not among the stocked lengths",
+    "center-moved": "the chosen belt moves the center distance",
+    "adjust-clipped": "the tensioner range is cut short",
+    # meshes (gears in engagement)
+    "module-mismatch": "the two members have different modules",
+    "pressure-angle-mismatch": "the two members have different pressure angles",
+    "helix-mismatch": "the two members have different helix angles",
+    "same-hand": "meshing helical members of the same hand",
+    "herringbone-mix": "a herringbone with a non-herringbone",
+    "no-mesh": "the members cannot be placed in mesh",
+    "teeth-interfere": "the teeth overlap in mesh",
+    "contact-ratio-low": "the contact ratio is below its limit",
+    "contact-below-form": "contact reaches below the form circle",
+    "contact-past-tangent": "the path of contact passes the interference point",
+    "tip-clearance-low": "the tip clearance is small",
+    "backlash-low": "the backlash is under what printing needs",
+    "backlash-mismatch": "swept and formula backlash disagree",
+    "mesh-geometry": "center distance and working pressure angle of a mesh",
+    "mesh-contact": "contact ratio of a mesh",
+    "mesh-backlash": "backlash of a mesh",
+    "mesh-sweep": "least clearance found by sweeping the outlines",
+    "strength-rating": "the declared load is within the Lewis rating",
+    "strength-margin": "the declared load exceeds the rating with its safety factor",
+    "strength-overload": "the declared load exceeds the unfactored rating",
+    # bevel gears and the differential
+    "bevel-mismatch": "the bevel pair members do not belong together",
+    "bevel-pair": "pitch cones and mounting of a bevel pair",
+    "bevel-placement": "the differential's gears cannot be placed",
+    "bevel-overlap": "placed bevel gears overlap",
+    "bevel-clearance": "least clearance of placed bevel gears",
+    "loose-mesh": "placed bevel gears stand apart",
+    "apex-offset": "a bevel gear's apex is off the common apex",
+    "kinematics": "the kinematic relations of an assembly",
+    # fit coupon
+    "coupon-steps": "what the coupon holds",
+    "coupon-reading": "how to read the coupon",
+    "piece-missing": "a coupon piece was not found where the layout puts it",
+}
+
 
 @dataclass(frozen=True)
 class Finding:
@@ -21,6 +104,12 @@ class Finding:
     key: str = ""         # parameter the finding is about, when there is one
     where: str = ""       # file:line of that parameter (filled in by the pipeline)
     scope: str = "part"   # what the subject is: part, mesh, drive or assembly
+
+    def __post_init__(self):
+        if self.code not in CODES:
+            raise ValueError(f"finding code {self.code!r} is not in gen.findings.CODES")
+        if self.severity not in _RANK:
+            raise ValueError(f"finding severity {self.severity!r}")
 
     def as_dict(self) -> dict:
         return asdict(self)

@@ -1,4 +1,4 @@
-"""Every numeric tolerance in one place (mm unless stated)."""
+"""Every numeric tolerance and design limit in one place (mm unless stated)."""
 
 from __future__ import annotations
 
@@ -21,6 +21,18 @@ class Tolerances:
     mesh_size: float = 0.02
     #: angular pitch uniformity (rad)
     angle: float = 1e-6
+    #: added to the chord tolerance when sizes are measured on slices of exported triangles
+    #: (slicing and polygon measurement round-off, mm)
+    slice_extra: float = 2e-3
+
+
+@dataclass(frozen=True)
+class Limits:
+    """Design limits the checks apply (each names its basis)."""
+
+    #: least transverse contact ratio of a pair (common practice)
+    min_contact_ratio: float = 1.1
 
 
 TOL = Tolerances()
+LIMITS = Limits()

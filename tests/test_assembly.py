@@ -6,7 +6,7 @@ import math
 import pytest
 
 from gen.cli import main
-from gen.pipeline import check
+from gen.check import check
 
 WRIST = """assemblies:
   wrist:
@@ -85,7 +85,7 @@ def test_bevel_stl_tooth_height_scales_with_cone_distance(tmp_path, write_yaml):
     out = tmp_path / "o"
     assert main(["build", write_yaml(text), "--out", str(out), "--format", "stl"]) == 0
     res = check([str(tmp_path / "parts.yaml")])
-    s = res.models["b"].bevel["sizes"]
+    s = res.models["b"].mate.sizes
     mesh = trimesh.load(out / "b.stl")
     v = mesh.vertices - [0.0, 0.0, s.mounting_distance]           # apex at the origin
     R = np.linalg.norm(v, axis=1)
@@ -126,12 +126,12 @@ def test_placed_gear_meshes_do_not_overlap(tmp_path, write_yaml):
         return m3d.Manifold(m3d.Mesh(np.asarray(m.vertices, np.float32), np.asarray(m.faces, np.uint32)))
 
     for t in (0.0, 0.5 * 2 * _m.pi / 20):
-        poses = gear_poses(asm.diff, t, -t)
+        poses = gear_poses(asm.detail, t, -t)
         out1 = placed("output_1", poses["output_1"])
         for g in ("input_1", "input_2"):
             inter = placed(g, poses[g]) ^ out1
             assert inter.volume() < 1e-3, (g, t, inter.volume())
     # and the same check does see an overlap when the output sits 0.3 m too deep
-    poses = gear_poses(asm.diff, 0.0, 0.0, axial_shift={"output_1": 0.45})
+    poses = gear_poses(asm.detail, 0.0, 0.0, axial_shift={"output_1": 0.45})
     inter = placed("input_1", poses["input_1"]) ^ placed("output_1", poses["output_1"])
     assert inter.volume() > 0.05

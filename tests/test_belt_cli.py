@@ -10,7 +10,7 @@ from pathlib import Path
 
 import pytest
 
-from gen.commands import belt as belt_cmd
+from gen.cli import belt as belt_cmd
 from gen.geometry.belt import belt_length
 
 ROOT = Path(__file__).resolve().parents[1]
@@ -108,7 +108,7 @@ def test_center_and_belt_teeth_are_exclusive(capsys):
 
 SCRIPT = """
 import argparse, json, sys
-from gen.commands import belt
+from gen.cli import belt
 p = argparse.ArgumentParser()
 belt.register(p.add_subparsers())
 a = p.parse_args(sys.argv[1:])

@@ -211,4 +211,4 @@ def test_small_end_tip_land():
     thin = bevel_sizes(20, 40, 3.0, RIGHT, 20.0, RACK, x=1.1)
     tf = virtual_flank(thin)
     assert small_end_tip_land(thin, tf) < 0.2 * 3.0 * thin.small_end_scale
-    assert {x.code: x.severity for x in bevel_findings(thin, tf)}["thin_tip"] == WARNING
+    assert {x.code: x.severity for x in bevel_findings(thin, tf)}["thin-tip"] == WARNING

@@ -14,7 +14,7 @@ from conftest import PARAMS
 from gen.cli import main
 from gen.geometry.basic_rack import basic_rack
 from gen.geometry.cylindrical import gear_sizes
-from gen.mesh.prism import slice_polygons
+from gen.triangles.prism import slice_polygons
 from gen.validate import measure
 
 INDEXER = os.path.join(PARAMS, "tray_indexer.yaml")

@@ -47,7 +47,7 @@ def test_no_command_is_usage_error():
 
 def test_new_writes_a_file_that_checks(tmp_path):
     from gen.cli import main
-    from gen.parts.base import KINDS
+    from gen.kinds.base import KINDS
 
     for kind in sorted(KINDS):
         assert main(["new", kind, f"x_{kind}", "--dir", str(tmp_path)]) == 0

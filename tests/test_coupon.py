@@ -28,14 +28,14 @@ parts:
 
 @pytest.fixture(scope="module")
 def built(tmp_path_factory):
-    from gen.mesh.prism import body_mesh
-    from gen.pipeline import check
+    from gen.triangles.prism import body_triangles
+    from gen.check import check
 
     path = tmp_path_factory.mktemp("coupon") / "coupon.yaml"
     path.write_text(YAML)
     result = check([str(path)])
     model = result.models["calib"]
-    return result, model, body_mesh(model.body, model.chord_tol)
+    return result, model, body_triangles(model.shape, model.chord_tol)
 
 
 def _area(p):
@@ -65,7 +65,7 @@ def test_checks_clean_and_describes_itself(built):
 
 def test_section_measurements(built):
     _, model, _ = built
-    got = model.coupon["measured"]
+    got = model.data["measured"]
     assert [s["teeth"] for s in got["sectors"]] == [5] * len(STEPS)
     for s, c in zip(got["sectors"], STEPS):
         # measured on the chordal polygon: within 2e-3 m of the formula (chordal effect)
@@ -84,7 +84,7 @@ def test_mesh_is_one_watertight_piece(built):
 
 
 def test_holes_measured_on_a_slice(built):
-    from gen.mesh.prism import slice_polygons
+    from gen.triangles.prism import slice_polygons
 
     _, model, mesh = built
     chord = model.chord_tol
@@ -103,14 +103,14 @@ def test_holes_measured_on_a_slice(built):
         assert d_vert == pytest.approx(d, abs=1e-4)            # vertices lie on the circle
         assert 0 <= d - d_area <= 2 * chord                    # inscribed polygon, chord tol
     # the kind's own mesh check agrees
-    assert model.mesh_check(polys, T / 2.0) == []
+    assert [f for check in model.slice_checks for f in check(lambda z: polys)] == []
 
 
 def test_teeth_and_dots_counted_on_slices(built):
-    from gen.mesh.prism import slice_polygons
+    from gen.triangles.prism import slice_polygons
 
     _, model, mesh = built
-    layout = model.coupon["layout"]
+    layout = model.data["layout"]
     mid = slice_polygons(mesh, T / 2.0)
     rp = M * Z / 2.0
     for s in layout["sectors"]:
@@ -145,8 +145,8 @@ def test_one_step_build(built, tmp_path):
 
 
 def test_starter_file_checks(tmp_path):
-    from gen.commands.new import starter_text
-    from gen.pipeline import check
+    from gen.cli.new import starter_text
+    from gen.check import check
 
     path = tmp_path / "starter.yaml"
     path.write_text(starter_text("fit_coupon", "cal"))
@@ -154,7 +154,7 @@ def test_starter_file_checks(tmp_path):
 
 
 def _make(values):
-    from gen.parts import coupon
+    from gen.kinds import coupon
 
     where = Where("test.yaml", "c", lambda key: None)
     plain = {k: v for k, v in values.items() if k not in ("steps", "bore_steps")}
@@ -176,13 +176,13 @@ def test_custom_steps_through_make():
     model = _make({"module": 1.0, "bore": 3, "steps": [0.0, 0.1, 0.2],
                    "bore_steps": [0.0, 0.2]})
     assert not has_errors(model.findings)
-    assert [s["teeth"] for s in model.coupon["measured"]["sectors"]] == [5, 5, 5]
-    assert len(model.coupon["measured"]["holes"]) == 2
+    assert [s["teeth"] for s in model.data["measured"]["sectors"]] == [5, 5, 5]
+    assert len(model.data["measured"]["holes"]) == 2
 
 
 def test_step_list_written_in_the_file(tmp_path):
     from gen.params.project import load_project
-    from gen.parts.base import resolve
+    from gen.kinds.base import resolve
 
     path = tmp_path / "c.yaml"
     path.write_text(YAML + "    steps: [0.0, 0.1]\n")

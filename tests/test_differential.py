@@ -163,10 +163,10 @@ def test_interference_reports_designed_backlash():
     r = reports[0]
     expect = 0.5 * 0.2 * math.cos(math.radians(20)) * min(r.radii) / diff.input.Re
     assert r.min_clearance == pytest.approx(expect, rel=0.03)
-    assert {f.code for f in found} == {"bevel_clearance"}
+    assert {f.code for f in found} == {"bevel-clearance"}
 
 
-@pytest.mark.parametrize("shift,code", [(0.6, "bevel_overlap"), (-0.6, "apex_offset")])
+@pytest.mark.parametrize("shift,code", [(0.6, "bevel-overlap"), (-0.6, "apex-offset")])
 def test_wrong_mounting_distance_is_an_error(shift, code):
     # output_1 moved 0.3 m along its axis, toward the apex (jams) or away (apex off)
     diff = bevel_differential(20, 20, 2.0, 7.0, RACK)

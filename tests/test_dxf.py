@@ -26,7 +26,7 @@ def _model(kind_mod, values):
 
 @pytest.fixture(scope="module")
 def gear():
-    from gen.parts import spur_gear
+    from gen.kinds import spur_gear
 
     return _model(spur_gear, {"module": M, "teeth": Z, "face_width": 5, "bore": BORE,
                               "pressure_angle": 20})
@@ -35,7 +35,7 @@ def gear():
 @pytest.fixture(scope="module")
 def gear_dxf(gear, tmp_path_factory):
     path = str(tmp_path_factory.mktemp("dxf") / "g.dxf")
-    size = write_dxf(gear.body.solids[0].section, path, "g")
+    size = write_dxf(gear.shape.solids[0].section, path, "g")
     return path, size
 
 
@@ -70,7 +70,7 @@ def test_splines_pass_through_fit_points_and_follow_the_involute(gear, gear_dxf)
     from gen.geometry.involute import inv
 
     doc = ezdxf.readfile(gear_dxf[0])
-    sizes, flank = gear.tooth["sizes"], gear.tooth["flank"]
+    sizes, flank = gear.mate.sizes, gear.mate.flank
     rb, rp, s = sizes.rb, sizes.rp, sizes.s
     worst = 0.0
     for e in list(doc.modelspace().query("SPLINE"))[:8]:
@@ -95,11 +95,11 @@ def test_splines_pass_through_fit_points_and_follow_the_involute(gear, gear_dxf)
 
 
 def test_rack_section_lines_and_fillet_arcs(tmp_path):
-    from gen.parts import rack
+    from gen.kinds import rack
 
     model = _model(rack, {"module": 1.5, "teeth": 6, "face_width": 5, "height": 6,
                           "pressure_angle": 20})
-    section = model.body.solids[0].section
+    section = model.shape.solids[0].section
     path = str(tmp_path / "r.dxf")
     write_dxf(section, path, "r")
     msp = ezdxf.readfile(path).modelspace()
@@ -120,8 +120,8 @@ def test_rack_section_lines_and_fillet_arcs(tmp_path):
 def test_same_section_same_bytes_and_options_restored(gear, tmp_path):
     before = ezdxf.options.write_fixed_meta_data_for_testing
     a, b = str(tmp_path / "a.dxf"), str(tmp_path / "b.dxf")
-    write_dxf(gear.body.solids[0].section, a, "g")
-    write_dxf(gear.body.solids[0].section, b, "g")
+    write_dxf(gear.shape.solids[0].section, a, "g")
+    write_dxf(gear.shape.solids[0].section, b, "g")
     assert open(a, "rb").read() == open(b, "rb").read()
     assert ezdxf.options.write_fixed_meta_data_for_testing == before
 

@@ -4,7 +4,7 @@ import math
 
 import pytest
 
-from gen.pipeline import check
+from gen.check import check
 
 TEXT = """fits:
   shop: {flank_clearance: 0.08, hole_allowance: 0.25, outline_offset: 0.05, min_feature: 0.8}
@@ -25,7 +25,7 @@ def test_fit_compensates_teeth_tip_and_bore(write_yaml):
     assert plain["tip_diameter"] - fitted["tip_diameter"] == pytest.approx(0.10)
     assert fitted["fit"]["name"] == "shop"
     # the bore loop is printed 0.25 mm larger
-    hole = res.models["fitted"].body.solids[0].section.holes[0]
+    hole = res.models["fitted"].shape.solids[0].section.holes[0]
     assert hole.curves[0].radius == pytest.approx((5 + 0.25) / 2)
 
 
@@ -43,7 +43,7 @@ def test_measured_profile_matches_compensated_formula(write_yaml):
 
     res = check([write_yaml(TEXT)])
     m = res.models["fitted"]
-    got = measured_sizes(m.outline, m.tooth["sizes"])
+    got = measured_sizes(m.outline, m.mate.sizes)
     assert got["tip_radius"] == pytest.approx(m.sizes["tip_diameter"] / 2, abs=1e-9)
     assert got["thickness"] == pytest.approx(m.sizes["tooth_thickness"], abs=2e-3)
 

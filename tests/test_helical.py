@@ -9,7 +9,7 @@ from gen.cli import main
 from gen.geometry.basic_rack import basic_rack
 from gen.geometry.cylindrical import gear_sizes
 from gen.geometry.pair import mesh_pair
-from gen.pipeline import check
+from gen.check import check
 
 IN = 25.4
 
@@ -63,11 +63,11 @@ def built(tmp_path_factory):
 def test_helix_measured_on_exported_stl(built):
     import trimesh
 
-    from gen.mesh.prism import slice_polygons
+    from gen.triangles.prism import slice_polygons
     from gen.validate.helix import angular_offset, expected_turn, fold, linear_offset
 
     out, res = built
-    s = res.models["hel"].tooth["sizes"]
+    s = res.models["hel"].mate.sizes
     mesh = trimesh.load(out / "hel.stl")
     a, b = (max(slice_polygons(mesh, z), key=len) for z in (1.0, 9.0))
     turn = angular_offset(a, b, s.rp, 20)
@@ -76,7 +76,7 @@ def test_helix_measured_on_exported_stl(built):
     assert math.degrees(abs(turn - want)) < 0.05
     # herringbone halves mirror about the mid-plane (6 mm)
     mesh = trimesh.load(out / "her.stl")
-    r = res.models["her"].tooth["sizes"].rp
+    r = res.models["her"].mate.sizes.rp
     lo, hi = (max(slice_polygons(mesh, z), key=len) for z in (2.0, 10.0))
     assert math.degrees(abs(angular_offset(lo, hi, r, 24))) < 0.05
     # helical rack: tooth traces shift Δx = Δz tan β along the rack
@@ -103,7 +103,7 @@ def test_step_reimports_and_volumes_agree(built):
 
 def test_transverse_module_basis(built):
     _, res = built
-    s = res.models["tgear"].tooth["sizes"]
+    s = res.models["tgear"].mate.sizes
     # module_basis transverse: mt given, mn = mt cos β (ISO 21771)
     assert s.mt == pytest.approx(2.0)
     assert s.mn == pytest.approx(2.0 * math.cos(math.radians(20)))

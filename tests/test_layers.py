@@ -1,21 +1,40 @@
-"""Imports point one way: params → geometry → validate → parts → solid/mesh → export → cli.
+"""Imports point one way over every package of gen, and heavy libraries stay where declared.
 
-Checked by reading every module's import statements (module level and inside functions)."""
+params → geometry → validate → kinds → assemblies → triangles / solid → export → check → build
+→ cli. Checked by reading every module's import statements (module level and inside
+functions), so a lazy import inside a function counts too."""
 
 import ast
 import os
 
 from conftest import ROOT
 
-KERNEL = ("cadquery", "OCP", "trimesh", "manifold3d", "ezdxf")
 # package → packages of pitchline it may import (besides itself and the base modules)
 ALLOWED = {
-    "geometry": set(),
     "params": set(),
+    "geometry": set(),
     "validate": {"geometry"},
-    "parts": {"geometry", "validate", "params"},
+    "kinds": {"params", "geometry", "validate"},
+    "assemblies": {"params", "geometry", "validate", "kinds"},
+    "triangles": {"geometry"},
+    "solid": {"geometry"},
+    "export": {"geometry", "validate"},
+    "check": {"params", "geometry", "validate", "kinds", "assemblies"},
+    "build": {"params", "geometry", "validate", "kinds", "assemblies", "triangles", "solid",
+              "export", "check"},
+    "cli": {"params", "geometry", "validate", "kinds", "assemblies", "triangles", "solid",
+            "export", "check", "build"},
 }
-BASE = {"gen", "gen.errors", "gen.findings", "gen.tolerances"}
+BASE = {"errors", "findings", "tolerances"}
+#: third-party library → the only places (package, or package/module.py) that may import it
+DECLARED = {
+    "cadquery": {"solid", "export/step.py"},
+    "OCP": {"solid", "export/step.py"},
+    "trimesh": {"triangles", "export/stl.py", "export/threemf.py"},
+    "manifold3d": {"triangles"},
+    "shapely": {"validate"},
+    "ezdxf": {"export/dxf.py"},
+}
 
 
 def _imports(path):
@@ -27,20 +46,44 @@ def _imports(path):
             yield node.module
 
 
+def _modules():
+    gen = os.path.join(ROOT, "gen")
+    for pkg in sorted(os.listdir(gen)):
+        folder = os.path.join(gen, pkg)
+        if os.path.isdir(folder) and pkg != "__pycache__":
+            for f in sorted(os.listdir(folder)):
+                if f.endswith(".py"):
+                    yield pkg, f, os.path.join(folder, f)
+
+
+def test_every_package_has_a_rule():
+    pkgs = {pkg for pkg, _, _ in _modules()}
+    assert pkgs == set(ALLOWED), pkgs ^ set(ALLOWED)
+
+
 def test_layers_import_downward_only():
     bad = []
-    for pkg, allowed in ALLOWED.items():
-        folder = os.path.join(ROOT, "gen", pkg)
-        for f in sorted(os.listdir(folder)):
-            if not f.endswith(".py"):
+    for pkg, f, path in _modules():
+        for mod in _imports(path):
+            parts = mod.split(".")
+            if parts[0] != "gen" or len(parts) < 2 or parts[1] in BASE:
                 continue
-            for mod in _imports(os.path.join(folder, f)):
-                top = mod.split(".")[0]
-                if top in KERNEL:
-                    bad.append(f"{pkg}/{f} imports {mod}")
-                if top != "gen" or mod in BASE:
-                    continue
-                layer = mod.split(".")[1]
-                if layer != pkg and layer not in allowed:
-                    bad.append(f"{pkg}/{f} imports {mod}")
+            if parts[1] != pkg and parts[1] not in ALLOWED[pkg]:
+                bad.append(f"{pkg}/{f} imports {mod}")
     assert not bad, bad
+
+
+def test_heavy_libraries_only_where_declared():
+    bad = []
+    for pkg, f, path in _modules():
+        for mod in _imports(path):
+            top = mod.split(".")[0]
+            if top in DECLARED and pkg not in DECLARED[top] and f"{pkg}/{f}" not in DECLARED[top]:
+                bad.append(f"{pkg}/{f} imports {mod}")
+    assert not bad, bad
+
+
+def test_base_modules_import_no_package():
+    for f in ("errors.py", "findings.py", "tolerances.py"):
+        mods = [m for m in _imports(os.path.join(ROOT, "gen", f)) if m.startswith("gen.")]
+        assert mods == [], (f, mods)

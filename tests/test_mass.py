@@ -1,4 +1,4 @@
-"""Mass properties of meshes built by the project's own path (Prism → body_mesh → trimesh).
+"""Mass properties of meshes built by the project's own path (Prism → body_triangles → trimesh).
 
 Reference values (computed, closed forms of a solid cylinder, any statics handbook):
 V = π r² h, I_z = m r²/2 about its axis, parallel-axis theorem I_O = I_G + m d².
@@ -16,8 +16,8 @@ import pytest
 from gen.errors import GeometryError
 from gen.geometry.body import Body, Prism
 from gen.geometry.section import Section, circle
-from gen.mesh.mass import mass_properties
-from gen.mesh.prism import body_mesh
+from gen.triangles.mass import mass_properties
+from gen.triangles.prism import body_triangles
 
 TOL = 0.01      # chordal tolerance of the mesh, mm
 RHO = 1.24      # g/cm³, input only (a typical solid PLA figure, common practice)
@@ -27,7 +27,7 @@ EXACT = 1e-6
 
 def disc(r, h, centre=(0.0, 0.0), hole=None):
     holes = (circle(hole, centre),) if hole else ()
-    return body_mesh(Body((Prism(Section(circle(r, centre), holes), 0.0, h),)), TOL)
+    return body_triangles(Body((Prism(Section(circle(r, centre), holes), 0.0, h),)), TOL)
 
 
 def ngon_sides(r, tol):

@@ -11,8 +11,8 @@ import pytest
 from gen.errors import GeometryError
 from gen.geometry.body import Body, Prism
 from gen.geometry.section import Section, circle
-from gen.mesh.plate import arrange, lay_flat
-from gen.mesh.prism import body_mesh
+from gen.triangles.plate import arrange, lay_flat
+from gen.triangles.prism import body_triangles
 
 
 def box(x, y, z):
@@ -25,7 +25,7 @@ def box(x, y, z):
 
 def disc(r, h, hole=None):
     holes = (circle(hole),) if hole else ()
-    return body_mesh(Body((Prism(Section(circle(r), holes), 0.0, h),)), 0.01)
+    return body_triangles(Body((Prism(Section(circle(r), holes), 0.0, h),)), 0.01)
 
 
 def frustum_apex_down():

@@ -23,7 +23,7 @@ from gen.geometry.gear_outline import gear_loop
 from gen.geometry.generate import generate_flank
 from gen.geometry.rack_outline import rack_loop, rack_sizes
 from gen.geometry.section import Arc, Line, Loop, Section, circle, signed_area
-from gen.mesh.prism import body_mesh, layer_heights, loop_polygon, prism_mesh, twist_step
+from gen.triangles.prism import body_triangles, layer_heights, loop_polygon, prism_triangles, twist_step
 from gen.validate import helix
 
 BETA = math.radians(30)
@@ -68,7 +68,7 @@ def outer_slice(mesh: trimesh.Trimesh, z: float) -> np.ndarray:
 @pytest.mark.parametrize("tol", [0.1, 0.01, 0.001])
 def test_disc_volume_matches_pi_r2_h(tol):
     r, h = 10.0, 5.0
-    m = prism_mesh(Prism(Section(circle(r)), 0.0, h), tol=tol)
+    m = prism_triangles(Prism(Section(circle(r)), 0.0, h), tol=tol)
     assert m.is_watertight and m.is_winding_consistent
     exact = math.pi * r * r * h  # computed: cylinder volume
     # an inscribed polygon within tol loses at most perimeter × tol of area
@@ -79,7 +79,7 @@ def test_disc_volume_matches_pi_r2_h(tol):
 @pytest.mark.parametrize("twist", [0.05, -0.2])
 def test_twisted_square_keeps_its_volume(twist, chevron):
     a, h, tol = 10.0, 12.0, 0.01
-    m = prism_mesh(Prism(Section(square(a)), 0.0, h, twist=twist, chevron=chevron), tol=tol)
+    m = prism_triangles(Prism(Section(square(a)), 0.0, h, twist=twist, chevron=chevron), tol=tol)
     assert m.is_watertight and m.is_volume
     exact = a * a * h  # computed: every section is the same square (Cavalieri)
     assert abs(m.volume - exact) <= 4 * a * h * tol  # lateral area × tolerance
@@ -88,7 +88,7 @@ def test_twisted_square_keeps_its_volume(twist, chevron):
 @pytest.mark.parametrize("chevron", [False, True])
 def test_sheared_square_is_exact(chevron):
     a, h = 6.0, 9.0
-    m = prism_mesh(Prism(Section(square(a)), 1.0, 1.0 + h, shear=0.7, chevron=chevron))
+    m = prism_triangles(Prism(Section(square(a)), 1.0, 1.0 + h, shear=0.7, chevron=chevron))
     assert m.is_watertight
     assert m.volume == pytest.approx(a * a * h, rel=1e-12)  # computed: planar walls, exact
     top = m.vertices[np.isclose(m.vertices[:, 2], 1.0 + h)]
@@ -102,7 +102,7 @@ def test_square_with_straight_hole_in_twisted_prism():
                 (Prism(Section(square(4.0, cx=8.0)), 0.0, 10.0),))
     plan = plan_cuts(body)
     assert not plan.booleans and len(plan.holes[0]) == 1
-    m = body_mesh(body, tol=0.01)
+    m = body_triangles(body, tol=0.01)
     assert m.is_watertight
     exact = (math.pi * 20.0 ** 2 - 16.0) * 10.0  # computed: disc minus square, times height
     walls = (2 * math.pi * 20.0 + 16.0) * 10.0
@@ -125,7 +125,7 @@ def test_twist_step_solves_the_bound():
 def test_gear_walls_stay_within_tol_of_the_helicoid(gear20, tol, chevron):
     loop, sz = gear20
     pr = Prism(Section(loop), 0.0, 16.0, twist=gear_twist(BETA, sz.rp), chevron=chevron)
-    m = prism_mesh(pr, tol=tol)
+    m = prism_triangles(pr, tol=tol)
     assert m.is_watertight
     walls = np.abs(m.face_normals[:, 2]) < 0.999
     tri = m.triangles[walls]
@@ -168,7 +168,7 @@ def test_spline_thinning_keeps_tol(gear20):
     (0.0, -0.5, True), (0.01, 0.2, False), (0.01, 0.2, True)])
 def test_gear_meshes_are_closed(gear20, twist, shear, chevron):
     loop, _ = gear20
-    m = prism_mesh(Prism(Section(loop, (circle(5.0),)), -3.0, 9.0, twist=twist, shear=shear,
+    m = prism_triangles(Prism(Section(loop, (circle(5.0),)), -3.0, 9.0, twist=twist, shear=shear,
                          chevron=chevron))
     assert m.is_watertight and m.is_winding_consistent and m.volume > 0
     assert m.bounds[0, 2] == pytest.approx(-3.0) and m.bounds[1, 2] == pytest.approx(9.0)
@@ -177,8 +177,8 @@ def test_gear_meshes_are_closed(gear20, twist, shear, chevron):
 def test_twist_does_not_change_gear_volume(gear20):
     loop, sz = gear20
     sec = Section(loop, (circle(5.0),))
-    v0 = prism_mesh(Prism(sec, 0.0, 20.0)).volume
-    v1 = prism_mesh(Prism(sec, 0.0, 20.0, twist=gear_twist(BETA, sz.rp), chevron=True)).volume
+    v0 = prism_triangles(Prism(sec, 0.0, 20.0)).volume
+    v1 = prism_triangles(Prism(sec, 0.0, 20.0, twist=gear_twist(BETA, sz.rp), chevron=True)).volume
     assert v1 == pytest.approx(v0, rel=2e-4)  # computed: Cavalieri, within the mesh tolerance
 
 
@@ -187,7 +187,7 @@ def test_twist_does_not_change_gear_volume(gear20):
 def test_measured_helix_on_helical_gear_slices(gear20, hand):
     loop, sz = gear20
     tw = gear_twist(BETA, sz.rp, hand)
-    m = prism_mesh(Prism(Section(loop, (circle(5.0),)), 0.0, 20.0, twist=tw))
+    m = prism_triangles(Prism(Section(loop, (circle(5.0),)), 0.0, 20.0, twist=tw))
     za, zb = 2.3, 9.1
     a, b = outer_slice(m, za), outer_slice(m, zb)
     got = helix.angular_offset(a, b, sz.rp)
@@ -201,7 +201,7 @@ def test_measured_helix_on_helical_gear_slices(gear20, hand):
 
 def test_herringbone_halves_are_mirror_images(gear20):
     loop, sz = gear20
-    m = prism_mesh(Prism(Section(loop), 0.0, 20.0, twist=gear_twist(BETA, sz.rp), chevron=True))
+    m = prism_triangles(Prism(Section(loop), 0.0, 20.0, twist=gear_twist(BETA, sz.rp), chevron=True))
     pairs = [(outer_slice(m, 10.0 - t), outer_slice(m, 10.0 + t)) for t in (1.3, 4.0, 8.7)]
     assert helix.check_herringbone_mirror(pairs, sz.rp)[0].severity == "info"
     # and each half has the helix: 0 → 8.7 below the apex turns by 8.7·tan β / r_p
@@ -215,7 +215,7 @@ def test_herringbone_halves_are_mirror_images(gear20):
 
 def test_helical_rack_slices_shift_by_tan_beta(rack10):
     loop, rs = rack10
-    m = prism_mesh(Prism(Section(loop), 0.0, 15.0, shear=rack_shear(BETA)))
+    m = prism_triangles(Prism(Section(loop), 0.0, 15.0, shear=rack_shear(BETA)))
     a, b = outer_slice(m, 1.0), outer_slice(m, 4.0)
     assert helix.linear_offset(a, b, 0.0, rs.pitch) == pytest.approx(3.0 * math.tan(BETA),
                                                                      abs=1e-6)
@@ -238,7 +238,7 @@ def test_d_bore_goes_into_the_section(gear20):
     body = Body((Prism(Section(loop), 0.0, 12.0, twist=gear_twist(BETA, sz.rp), chevron=True),),
                 (Prism(Section(d_bore()), -1.0, 13.0),))
     assert plan_cuts(body).booleans == ()
-    m = body_mesh(body)
+    m = body_triangles(body)
     assert m.is_watertight
     ref = (Polygon(loop_polygon(loop, 0.005)).area - Polygon(loop_polygon(d_bore(), 0.005)).area)
     assert m.volume == pytest.approx(ref * 12.0, rel=2e-4)  # shapely areas, computed
@@ -251,7 +251,7 @@ def test_keyway_across_the_bore_needs_a_boolean(gear20):
     body = Body((Prism(Section(loop, (circle(4.0),)), 0.0, 10.0, twist=gear_twist(BETA, sz.rp)),),
                 (Prism(Section(key), -1.0, 11.0),))
     assert len(plan_cuts(body).booleans) == 1
-    m = body_mesh(body)
+    m = body_triangles(body)
     assert m.is_watertight
     hole = Polygon(loop_polygon(circle(4.0), 0.005)).union(Polygon(loop_polygon(key, 0.005)))
     ref = (Polygon(loop_polygon(loop, 0.005)).area - hole.area) * 10.0  # shapely union area
@@ -262,9 +262,9 @@ def test_gear_with_hub_union(gear20):
     loop, sz = gear20
     gear = Prism(Section(loop, (circle(4.0),)), 0.0, 10.0, twist=gear_twist(BETA, sz.rp))
     hub = Prism(Section(circle(9.0), (circle(4.0),)), 10.0, 16.0)
-    m = body_mesh(Body((gear, hub)))
+    m = body_triangles(Body((gear, hub)))
     assert m.is_watertight
-    ref = prism_mesh(gear).volume + prism_mesh(hub).volume  # touching only on the face
+    ref = prism_triangles(gear).volume + prism_triangles(hub).volume  # touching only on the face
     assert m.volume == pytest.approx(ref, rel=1e-9)
 
 
@@ -291,7 +291,7 @@ def test_cut_planning_rules(gear20, rack10):
     rack = Prism(Section(rl), 0.0, 10.0, shear=rack_shear(BETA), chevron=True)
     back = Prism(Section(circle(1.5, center=(30.0, -6.0))), 0.0, 10.0)
     assert plan_cuts(Body((rack,), (back,))).booleans == ()
-    m = body_mesh(Body((rack,), (back,)))
+    m = body_triangles(Body((rack,), (back,)))
     assert m.is_watertight
     near_end = Prism(Section(circle(1.5, center=(1.0, -6.0))), 0.0, 10.0)
     assert len(plan_cuts(Body((rack,), (near_end,))).booleans) == 1
@@ -301,7 +301,7 @@ def test_bad_input_raises():
     with pytest.raises(GeometryError):
         Prism(Section(circle(1.0)), 2.0, 2.0)
     with pytest.raises(GeometryError):
-        prism_mesh(Prism(Section(circle(1.0)), 0.0, 1.0), tol=0.0)
+        prism_triangles(Prism(Section(circle(1.0)), 0.0, 1.0), tol=0.0)
     with pytest.raises(GeometryError):
         Body(())
     with pytest.raises(GeometryError):

@@ -23,7 +23,7 @@ from gen.geometry.gear_outline import gear_loop  # noqa: E402
 from gen.geometry.generate import generate_flank  # noqa: E402
 from gen.geometry.rack_outline import rack_loop, rack_sizes  # noqa: E402
 from gen.geometry.section import Arc, Line, Loop, Section, circle  # noqa: E402
-from gen.mesh.prism import body_mesh  # noqa: E402
+from gen.triangles.prism import body_triangles  # noqa: E402
 from gen.solid.prism import HELIX_FIT, body_solid, prism_solid  # noqa: E402
 
 BETA = math.radians(30)
@@ -67,7 +67,7 @@ def round_trip(body: Body, tmp_path, name: str):
     solids = back.solids().vals()
     assert len(solids) == 1 and solids[0].isValid()
     stl = tmp_path / f"{name}.stl"
-    body_mesh(body, tol=0.01).export(str(stl))
+    body_triangles(body, tol=0.01).export(str(stl))
     mesh = trimesh.load(str(stl))
     assert mesh.is_watertight
     assert mesh.volume == pytest.approx(solids[0].Volume(), rel=2e-3)
@@ -177,10 +177,10 @@ def test_herringbone_rack_and_boolean_fallbacks(gear20):
                 (Prism(Section(key), -1.0, 9.0),))
     s = body_solid(body)
     assert s.isValid() and solid_count(s) == 1
-    assert body_mesh(body).volume == pytest.approx(s.Volume(), rel=2e-3)
+    assert body_triangles(body).volume == pytest.approx(s.Volume(), rel=2e-3)
     # a straight hub on the twisted gear's top face: boolean union
     hub = Prism(Section(circle(9.0), (circle(4.0),)), 8.0, 14.0)
     body = Body((body.solids[0], hub))
     s = body_solid(body)
     assert s.isValid() and solid_count(s) == 1
-    assert body_mesh(body).volume == pytest.approx(s.Volume(), rel=2e-3)
+    assert body_triangles(body).volume == pytest.approx(s.Volume(), rel=2e-3)

@@ -7,7 +7,7 @@ import pytest
 import trimesh
 
 from gen.cli import main
-from gen.pipeline import check
+from gen.check import check
 
 PULLEYS = """parts:
   a: {kind: timing_pulley, profile: %s, teeth: %d, belt_width: 6, bore: 5, hub: {diameter: 16, length: 6}, set_screw: {size: M3}}
@@ -36,7 +36,7 @@ def test_pulley_stl_measures_outside_diameter_and_grooves(profile, z, p, a, tmp_
     mesh = trimesh.load(out / "a.stl")
     assert mesh.is_watertight
     assert mesh.bounds[0][2] == pytest.approx(0.0, abs=1e-6)
-    from gen.mesh.prism import slice_polygons
+    from gen.triangles.prism import slice_polygons
     from gen.validate.pulley_checks import measure_pulley
 
     z_mid = 6 + 1.0 + (6 + 1.0) / 2  # hub, flange, half the toothed band
@@ -47,11 +47,11 @@ def test_pulley_stl_measures_outside_diameter_and_grooves(profile, z, p, a, tmp_
 
 
 def test_set_screw_hole_goes_through_the_hub(write_yaml):
-    from gen.mesh.prism import body_mesh
+    from gen.triangles.prism import body_triangles
 
     with_screw = check([write_yaml(PULLEYS % ("curv2", 20))]).models["a"]
     plain = check([write_yaml((PULLEYS % ("curv2", 20)).replace(", set_screw: {size: M3}", ""))]).models["a"]
-    removed = body_mesh(plain.body).volume - body_mesh(with_screw.body).volume
+    removed = body_triangles(plain.shape).volume - body_triangles(with_screw.shape).volume
     # an M3 tap-drill hole (2.5 mm, from memory) through the wall from the 5 mm bore to the
     # 16 mm hub: π r² (8 − 2.5) mm³, ends curved (within 5 %; computed)
     expected = math.pi * 1.25**2 * (8.0 - 2.5)

@@ -6,9 +6,9 @@ from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
 from gen.geometry.modules import SERIES_I, SERIES_II
-from gen.mesh.prism import body_mesh
+from gen.triangles.prism import body_triangles
 from gen.params.project import RawPart
-from gen.parts.base import resolve
+from gen.kinds.base import resolve
 from gen.findings import has_errors
 
 MODULES = [m for m in SERIES_I + SERIES_II if 0.3 <= m <= 10]
@@ -42,12 +42,12 @@ def test_random_gear_validates_or_is_refused(values):
     if has_errors(model.findings):
         assert all(f.code and f.message for f in model.findings)
         return
-    mesh = body_mesh(model.body, model.chord_tol)
+    mesh = body_triangles(model.shape, model.chord_tol)
     assert mesh.is_watertight and mesh.volume > 0
-    # measured on the mesh as on the profile: ISO 21771 sizes (mesh_check compares them)
-    from gen.mesh.prism import slice_polygons
-    z_mid = values["face_width"] / 2
-    assert not has_errors(model.mesh_check(slice_polygons(mesh, z_mid), z_mid))
+    # measured on the mesh as on the profile: ISO 21771 sizes (slice_check compares them)
+    from gen.triangles.prism import slice_polygons
+    for check in model.slice_checks:
+        assert not has_errors(check(lambda z: slice_polygons(mesh, z)))
 
 
 @settings(max_examples=8, deadline=None, suppress_health_check=[HealthCheck.too_slow])
@@ -58,9 +58,9 @@ def test_random_gear_solid_is_valid(values):
         return
     from gen.solid.prism import body_solid
 
-    solid = body_solid(model.body)
+    solid = body_solid(model.shape)
     assert solid.isValid()
-    mesh = body_mesh(model.body, model.chord_tol)
+    mesh = body_triangles(model.shape, model.chord_tol)
     assert math.isclose(solid.Volume(), mesh.volume, rel_tol=5e-3)
 
 
@@ -82,11 +82,11 @@ def test_random_helical_gear_validates_or_is_refused(kind_values):
     if has_errors(model.findings):
         assert all(f.code and f.message for f in model.findings)
         return
-    from gen.mesh.prism import slice_polygons
+    from gen.triangles.prism import slice_polygons
 
-    mesh = body_mesh(model.body, model.chord_tol)
+    mesh = body_triangles(model.shape, model.chord_tol)
     assert mesh.is_watertight and mesh.volume > 0
-    z = model.mesh_check_z if model.mesh_check_z is not None else values["face_width"] / 2
-    assert not has_errors(model.mesh_check(slice_polygons(mesh, z), z))
-    # the helix measured on the mesh (Δθ = Δz tan β / r_p within 0.05°)
-    assert not has_errors(model.helix_check(lambda zz: slice_polygons(mesh, zz)))
+    # sizes on a slice, and the helix measured on the mesh (Δθ = Δz tan β / r_p within 0.05°)
+    assert len(model.slice_checks) == 2
+    for check in model.slice_checks:
+        assert not has_errors(check(lambda z: slice_polygons(mesh, z)))

@@ -14,14 +14,14 @@ from gen.errors import ExportError
 from gen.export.threemf import CORE_NS, write_3mf
 from gen.geometry.body import Body, Prism
 from gen.geometry.section import Section, circle
-from gen.mesh.prism import body_mesh
+from gen.triangles.prism import body_triangles
 
 
 @pytest.fixture(scope="module")
 def items():
     import trimesh
 
-    ring = body_mesh(Body((Prism(Section(circle(10.0), (circle(3.0),)), 0.0, 5.0),)), 0.01)
+    ring = body_triangles(Body((Prism(Section(circle(10.0), (circle(3.0),)), 0.0, 5.0),)), 0.01)
     box = trimesh.creation.box((10.0, 20.0, 30.0))
     box.apply_translation((40.0, 0.0, 15.0))
     return [("ring", ring), ("box <&> \"q\"", box)]

@@ -104,3 +104,10 @@ def write_dxf(section, path: str, name: str) -> int:
     data = dxf_bytes(section, name)
     write_atomic(path, data)
     return len(data)
+
+
+def write_part(part, path: str, made) -> int | None:
+    """The part's flat section as DXF, or None when it has none."""
+    if part.section is None:
+        return None
+    return write_dxf(part.section, path, part.name)

@@ -51,15 +51,22 @@ def normalise(data: bytes, name: str) -> bytes:
 
 
 def write_step_assembly(items, path: str, name: str) -> int:
-    """STEP of named, placed solids: ``items`` = [(part name, shape, cadquery Location)].
+    """STEP of named, placed solids: ``items`` = [(part name, shape, 4×4 pose matrix)].
 
     Written through the XCAF writer so that every solid keeps its name in CAD."""
     import cadquery as cq
     from cadquery.occ_impl.exporters.assembly import exportAssembly
+    from OCP.gp import gp_Trsf
+
+    from gen.errors import GeometryError
 
     assy = cq.Assembly(name=name)
-    for part, shape, loc in items:
-        assy.add(shape, name=part, loc=loc)
+    for part, shape, T in items:
+        if not shape.isValid():
+            raise GeometryError(f"assembly STEP: the solid of {part} is not valid")
+        trsf = gp_Trsf()
+        trsf.SetValues(*(float(T[i, j]) for i in range(3) for j in range(4)))
+        assy.add(shape, name=part, loc=cq.Location(trsf))
     data = _through_file(os.path.dirname(os.path.abspath(path)),
                          lambda tmp: exportAssembly(assy, tmp), name)
     data = normalise(data, name)
@@ -78,3 +85,8 @@ def read_step(path: str):
     import cadquery as cq
 
     return cq.importers.importStep(path).val()
+
+
+def write_part(part, path: str, made) -> int:
+    """The part's solid (checked against its triangles' volume) as STEP."""
+    return write_step(made.solid(), path, part.name)

@@ -15,3 +15,8 @@ def write_stl(mesh, path: str) -> int:
     data = stl_bytes(mesh)
     write_atomic(path, data)
     return len(data)
+
+
+def write_part(part, path: str, made) -> int:
+    """The part's checked triangles as binary STL."""
+    return write_stl(made.triangles, path)

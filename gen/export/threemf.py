@@ -106,8 +106,20 @@ def write_3mf(items, path: str) -> int:
     """Write ``items`` = [(name, trimesh mesh in mm), ...] as one 3MF file; returns its size.
 
     Each mesh becomes one object and one build item, placed where its coordinates put it
-    (arrange parts on a plate first with :func:`gen.mesh.plate.arrange`).
+    (arrange parts on a plate first with :func:`gen.triangles.plate.arrange`).
     """
     data = threemf_bytes(list(items))
     write_atomic(path, data)
     return len(data)
+
+
+def write_part(part, path: str, made) -> int:
+    """The part's checked triangles as a one-object 3MF."""
+    return write_3mf([(part.name, made.triangles)], path)
+
+
+def read_3mf(path: str):
+    """Re-read a one-object 3MF from disk as one triangle mesh (trimesh, a second reader)."""
+    import trimesh
+
+    return trimesh.load(path, force="mesh")

@@ -1,6 +1,6 @@
 """Neutral description of prismatic bodies: straight, twisted (helical), sheared and chevron.
 
-The solid layer (:mod:`gen.solid.prism`) and the mesh layer (:mod:`gen.mesh.prism`) both
+The solid layer (:mod:`gen.solid.prism`) and the mesh layer (:mod:`gen.triangles.prism`) both
 consume these records, so a part is described once and built by either route.
 
 Motion of the section
@@ -32,6 +32,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from typing import ClassVar
 
 import numpy as np
 
@@ -135,12 +136,30 @@ class Body:
     cuts: tuple = ()
     radial_holes: tuple = ()   # RadialHole: set-screw holes across the axis
 
+    #: shared builder that turns this description into triangles and a solid
+    builder: ClassVar[str] = "prism"
+
     def __post_init__(self):
         if not self.solids:
             raise GeometryError("a body needs at least one solid prism")
         for p in tuple(self.solids) + tuple(self.cuts):
             if not isinstance(p, Prism):
                 raise GeometryError(f"body members must be Prism, got {type(p).__name__}")
+
+
+@dataclass(frozen=True, eq=False)
+class ApexBody:
+    """A straight bevel gear: teeth ruled through the cone apex on a revolved blank.
+
+    ``sizes`` is a :class:`gen.geometry.bevel.BevelSizes`, ``flank`` its virtual (Tredgold)
+    spur flank, ``bore`` the bore diameter in mm (0: none).
+    """
+
+    sizes: object
+    flank: object
+    bore: float = 0.0
+
+    builder: ClassVar[str] = "apex_ruled"
 
 
 def gear_twist(beta: float, r_p: float, hand: str = "right") -> float:

@@ -34,6 +34,10 @@ class Key:
     doc: str = ""
     sub: tuple = field(default_factory=tuple)   # nested Keys for kind="map"
     scalar: str | None = None                   # for "map": sub-key a bare number stands for
+    item: str = "float"                         # for "list": "float", "int" or "str" items
+    count: int | None = None                    # for "list": exact length, when fixed
+    max_count: int | None = None                # for "list": longest accepted
+    ascending: bool = False                     # for "list": strictly increasing values
 
     @property
     def required(self) -> bool:
@@ -47,20 +51,25 @@ class Key:
         unit = f" {self.unit}" if self.unit else ""
         if not lo and not hi:
             return {"int": "a whole number", "float": "a finite number", "angle": "an angle in degrees",
-                "list": "a list of numbers",
+                "list": f"a list of {key_items(self)}",
                     "bool": "true or false", "str": "text", "map": "a mapping"}.get(self.kind, self.kind)
         return f"{lo}{self.name}{hi}{unit}"
+
+
+def key_items(key: Key) -> str:
+    n = f"{key.count} " if key.count else ""
+    return n + {"float": "numbers", "int": "whole numbers", "str": "names"}[key.item]
 
 
 class Where:
     """Context for messages: file, part and a line lookup."""
 
-    def __init__(self, file: str, part: str | None, line_of):
-        self.file, self.part, self._line_of = file, part, line_of
+    def __init__(self, file: str, part: str | None, line_of, section: str = "part"):
+        self.file, self.part, self._line_of, self.section = file, part, line_of, section
 
     def error(self, key: str | None, msg: str, value=None, allowed=None) -> ParamError:
         return ParamError(msg, file=self.file, line=self._line_of(key), part=self.part, key=key,
-                          value=value, allowed=allowed)
+                          value=value, allowed=allowed, section=self.section)
 
 
 def suggest(word: str, options) -> str:
@@ -77,12 +86,23 @@ def check_value(key: Key, value, where: Where, path: str | None = None):
         if not isinstance(value, dict):
             raise where.error(name, "must be a mapping", value, key.range_text())
         return check_mapping(value, key.sub, where, prefix=name + ".")
-    if k == "list":  # a list of numbers, each within lo … hi
+    if k == "list":  # a list of numbers (each within lo … hi) or of names
+        what = {"float": "numbers, e.g. [0, 0.1]", "int": "whole numbers, e.g. [20, 40]",
+                "str": "names, e.g. [a, b]"}[key.item]
         if not isinstance(value, list) or not value:
-            raise where.error(name, "must be a list of numbers, e.g. [0, 0.1]", value,
+            raise where.error(name, f"must be a list of {what}", value, key.range_text())
+        if key.count is not None and len(value) != key.count:
+            raise where.error(name, f"must list exactly {key.count} {what.split(',')[0]}",
+                              value, key.range_text())
+        if key.max_count is not None and len(value) > key.max_count:
+            raise where.error(name, f"must list at most {key.max_count} values", value,
                               key.range_text())
-        item = Key(key.name, "float", None, lo=key.lo, hi=key.hi, unit=key.unit)
-        return [check_value(item, v, where, f"{name}[{i}]") for i, v in enumerate(value)]
+        item = Key(key.name, key.item, None, lo=key.lo, hi=key.hi, unit=key.unit)
+        out = [check_value(item, v, where, f"{name}[{i}]") for i, v in enumerate(value)]
+        if key.ascending and any(b <= a for a, b in zip(out, out[1:])):
+            raise where.error(name, "must be in ascending order without repeats", value,
+                              key.range_text())
+        return out
     if k == "bool":
         if not isinstance(value, bool):
             raise where.error(name, "must be true or false", value)

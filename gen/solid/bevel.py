@@ -105,3 +105,8 @@ def build_bevel_solid(sizes: BevelSizes, bore_diameter: float, *, flank=None):
         raise GeometryError("bevel gear result is not a solid")
     return solid
 
+
+
+def apex_solid(shape):
+    """Solid of a :class:`gen.geometry.body.ApexBody` (the builder table's entry)."""
+    return build_bevel_solid(shape.sizes, shape.bore, flank=shape.flank)

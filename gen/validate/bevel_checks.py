@@ -61,24 +61,24 @@ def bevel_findings(sizes: BevelSizes, flank: Flank, subject: str = "") -> list[F
             subject, "Tredgold virtual gear, rack generation"))
     # face width limit
     if sizes.b > sizes.b_max + 1e-9:
-        out.append(Finding(ERROR, "face_width",
+        out.append(Finding(ERROR, "face-width",
                            f"face width {sizes.b:.3f} mm exceeds min(Re/3, 10 m) = {sizes.b_max:.3f} mm",
                            subject, "ISO 23509 practice"))
     else:
-        out.append(Finding(INFO, "face_width",
+        out.append(Finding(INFO, "face-width",
                            f"face width {sizes.b:.3f} mm of at most {sizes.b_max:.3f} mm "
                            f"(Re = {sizes.Re:.3f} mm)", subject, "ISO 23509 practice"))
     # tip land at the small end
     sa = small_end_tip_land(sizes, flank)
     if sa <= 0:
-        out.append(Finding(ERROR, "pointed_tip", "teeth are pointed at the small end",
+        out.append(Finding(ERROR, "pointed-tip", "teeth are pointed at the small end",
                            subject, "Tredgold virtual gear"))
     elif sa < MIN_TIP_LAND * m * k:
-        out.append(Finding(WARNING, "thin_tip",
+        out.append(Finding(WARNING, "thin-tip",
                            f"tip land at the small end {sa:.3f} mm is below "
                            f"{MIN_TIP_LAND} × small-end module = {MIN_TIP_LAND * m * k:.3f} mm",
                            subject, "common practice"))
     else:
-        out.append(Finding(INFO, "tip_land", f"tip land at the small end {sa:.3f} mm",
+        out.append(Finding(INFO, "tip-land", f"tip land at the small end {sa:.3f} mm",
                            subject, "Tredgold virtual gear"))
     return out

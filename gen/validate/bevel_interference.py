@@ -200,20 +200,20 @@ def interference_findings(reports, module: float, designed: float = 0.0, subject
     for r in reports:
         name = f"{r.pair[0]}/{r.pair[1]}"
         if r.apex_offset > MAX_APEX_OFFSET * module:
-            out.append(Finding(ERROR, "apex_offset",
+            out.append(Finding(ERROR, "apex-offset",
                                f"{name}: pitch-cone apexes {r.apex_offset:.3f} mm apart (allowed "
                                f"{MAX_APEX_OFFSET * module:.3f} mm): check the mounting distances",
                                subject, "common apex of bevel gears"))
         if r.overlap_depth > MAX_OVERLAP_DEPTH * module:
-            out.append(Finding(ERROR, "bevel_overlap",
+            out.append(Finding(ERROR, "bevel-overlap",
                                f"{name}: teeth overlap by up to {r.overlap_depth:.4f} mm "
                                f"({r.overlap_area:.4f} mm² on one sphere)", subject, src))
         elif r.min_clearance > designed + LOOSE_GAP * module:
-            out.append(Finding(WARNING, "loose_mesh",
+            out.append(Finding(WARNING, "loose-mesh",
                                f"{name}: smallest gap {r.min_clearance:.3f} mm exceeds the designed "
                                f"{designed:.3f} mm by more than {LOOSE_GAP} m", subject, src))
         else:
-            out.append(Finding(INFO, "bevel_clearance",
+            out.append(Finding(INFO, "bevel-clearance",
                                f"{name}: smallest gap {r.min_clearance:.4f} mm, overlap "
                                f"{r.overlap_depth:.4f} mm over {r.steps} steps", subject, src))
     return out

@@ -105,10 +105,10 @@ def check_gear_helix(poly_a, poly_b, dz: float, beta: float, r_p: float, subject
     want = got - miss  # the expected turn, taken modulo one angular pitch like the measurement
     src = "ISO 21771: Δθ = Δz·tan β / r_p"
     if abs(miss) > tol:
-        return [Finding(ERROR, "helix_turn",
+        return [Finding(ERROR, "helix-turn",
                         f"section turns {math.degrees(got):.4f}° over {dz:g} mm, expected "
                         f"{math.degrees(want):.4f}° (β {math.degrees(beta):.3f}°)", subject, src)]
-    return [Finding(INFO, "helix_turn",
+    return [Finding(INFO, "helix-turn",
                     f"section turn {math.degrees(got):.4f}° over {dz:g} mm matches "
                     f"β {math.degrees(helix_angle(got, dz, r_p)):.3f}°", subject, src)]
 
@@ -124,8 +124,8 @@ def check_herringbone_mirror(pairs, r: float, subject: str = "",
     worst = max(abs(mirror_offset(a, b, r)) for a, b in pairs)
     src = "herringbone halves mirror about the mid-plane"
     if worst > tol:
-        return [Finding(ERROR, "herringbone_mirror",
+        return [Finding(ERROR, "herringbone-mirror",
                         f"halves differ by {math.degrees(worst):.4f}° at the same distance from "
                         f"the mid-plane", subject, src)]
-    return [Finding(INFO, "herringbone_mirror",
+    return [Finding(INFO, "herringbone-mirror",
                     f"halves mirror within {math.degrees(worst):.5f}°", subject, src)]

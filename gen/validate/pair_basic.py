@@ -7,16 +7,16 @@ import math
 from gen.findings import ERROR, Finding
 
 
-def tooth_system(tooth: dict) -> tuple[float, float, float]:
-    """(normal module, normal pressure angle, helix angle) of a gear or rack tooth dict."""
-    if tooth["role"] == "rack":
-        s = tooth["rack_sizes"]
-        return s.mn, s.alpha_n, s.beta
-    s = tooth["sizes"]
+def tooth_system(mate) -> tuple[float, float, float]:
+    """(normal module, normal pressure angle, helix angle) of a gear's or rack's mate data
+    (anything with ``sizes.mn``, ``sizes.alpha_n`` and ``sizes.beta``)."""
+    s = mate.sizes
     return s.mn, s.alpha_n, s.beta
 
 
-def basic_pair_findings(label: str, a: str, ta: dict, b: str, tb: dict) -> list:
+def basic_pair_findings(label: str, a: str, ta, b: str, tb) -> list:
+    """Same tooth system, opposite hands, herringbone with herringbone. ``ta``/``tb`` are the
+    members' mate data (sizes, ``hand``, ``chevron``)."""
     out = []
     ma, aa, ba = tooth_system(ta)
     mb, ab, bb = tooth_system(tb)
@@ -33,13 +33,11 @@ def basic_pair_findings(label: str, a: str, ta: dict, b: str, tb: dict) -> list:
                            f"'{a}' has helix angle {math.degrees(ba):g}° but '{b}' has "
                            f"{math.degrees(bb):g}°: they cannot mesh", label,
                            "equal helix angle (ISO 21771)", key="helix_angle"))
-    if ta.get("hand") and tb.get("hand") and ta["hand"] == tb["hand"]:
-        out.append(Finding(ERROR, "same-hand", f"'{a}' and '{b}' are both {ta['hand']}-hand: "
+    if ta.hand and tb.hand and ta.hand == tb.hand:
+        out.append(Finding(ERROR, "same-hand", f"'{a}' and '{b}' are both {ta.hand}-hand: "
                            "meshing helical members need opposite hands", label,
                            "parallel-axis helical mesh (ISO 21771)", key="hand"))
-    if bool(ta.get("chevron")) != bool(tb.get("chevron")):
+    if bool(ta.chevron) != bool(tb.chevron):
         out.append(Finding(ERROR, "herringbone-mix", f"'{a}' and '{b}': a herringbone meshes "
                            "only with a herringbone", label, ""))
-    if ta["role"] == "rack" and tb["role"] == "rack":
-        out.append(Finding(ERROR, "rack-rack", "two racks cannot mesh with each other", label, ""))
     return out

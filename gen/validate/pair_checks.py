@@ -25,6 +25,7 @@ from dataclasses import dataclass
 
 from gen.geometry.pair import RACK, PairResult
 from gen.tolerances import TOL
+from gen.tolerances import LIMITS
 from gen.findings import ERROR, INFO, WARNING, Finding
 from gen.validate.sweep import INTERFERING, SweepResult
 
@@ -35,7 +36,7 @@ SOURCE_SWEEP = "swept outlines (shapely intersection and distance)"
 @dataclass(frozen=True)
 class PairLimits:
     #: least transverse contact ratio (common practice)
-    min_contact_ratio: float = 1.1
+    min_contact_ratio: float = LIMITS.min_contact_ratio
     #: least tip-to-root clearance, in modules (common practice)
     min_tip_clearance_modules: float = 0.1
     #: default clearance a printed flank needs from its mate, per flank (mm, common practice:

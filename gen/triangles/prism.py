@@ -202,14 +202,14 @@ def _from_manifold(m):
     return np.asarray(mesh.vert_properties)[:, :3], np.asarray(mesh.tri_verts, dtype=np.int64)
 
 
-def prism_mesh(prism: Prism, tol: float = 0.01):
+def prism_triangles(prism: Prism, tol: float = 0.01):
     """Closed trimesh.Trimesh of one prism, within ``tol`` mm of the exact surfaces."""
     if tol <= 0:
         raise GeometryError(f"mesh tolerance must be positive, got {tol}")
     return _to_trimesh(*_prism_arrays(prism, tol))
 
 
-def body_mesh(body: Body, tol: float = 0.01):
+def body_triangles(body: Body, tol: float = 0.01):
     """Closed trimesh.Trimesh of ``body`` (union of prisms minus cuts), within ``tol`` mm."""
     if tol <= 0:
         raise GeometryError(f"mesh tolerance must be positive, got {tol}")

@@ -33,7 +33,7 @@ def bevel_manifold(sizes, bore_diameter: float, flank, tol: float = 0.01):
     return teeth ^ blank
 
 
-def bevel_mesh(sizes, bore_diameter: float, flank, tol: float = 0.01):
+def bevel_triangles(sizes, bore_diameter: float, flank, tol: float = 0.01):
     import trimesh
 
     from gen.errors import GeometryError
@@ -44,3 +44,8 @@ def bevel_mesh(sizes, bore_diameter: float, flank, tol: float = 0.01):
     if not tm.is_watertight or tm.volume <= 0:
         raise GeometryError("bevel gear mesh is not watertight")
     return tm
+
+
+def apex_triangles(shape, tol: float = 0.01):
+    """Triangles of a :class:`gen.geometry.body.ApexBody` (the builder table's entry)."""
+    return bevel_triangles(shape.sizes, shape.bore, shape.flank, tol)

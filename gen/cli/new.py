@@ -7,7 +7,7 @@ import sys
 
 
 def register(sub):
-    from gen.parts.base import KINDS
+    from gen.kinds.base import KINDS
 
     p = sub.add_parser("new", help="write a commented starter parameter file",
                        description="Write NAME.yaml with every key of KIND, its unit, range and "
@@ -33,9 +33,9 @@ def _fmt(key) -> str:
 def starter_text(kind: str, name: str) -> str:
     import importlib
 
-    from gen.parts.base import KINDS
+    from gen.kinds.base import KINDS
 
-    mod = importlib.import_module(f"gen.parts.{KINDS[kind]}")
+    mod = importlib.import_module(f"gen.kinds.{KINDS[kind]}")
     lines = [f"# pitchline starter file for a {kind}. Units: mm and degrees.",
              "# Keys marked 'required' must be set; the rest show their default.",
              "parts:", f"  {name}:", f"    kind: {kind}"]
@@ -62,7 +62,7 @@ def starter_text(kind: str, name: str) -> str:
 
 
 def run(args) -> int:
-    from gen.parts.base import KINDS
+    from gen.kinds.base import KINDS
     from gen.params.schema import suggest
 
     args.kind = {"coupon": "fit_coupon"}.get(args.kind, args.kind)

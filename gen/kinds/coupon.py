@@ -34,13 +34,14 @@ from gen.geometry.rack_outline import rack_loop, rack_sizes
 from gen.geometry.section import Arc, Line, Loop, Section, Spline, circle, signed_area
 from gen.params.schema import REQUIRED, Key
 from gen.tolerances import TOL
-from gen.parts import common_keys as K
-from gen.parts.base import PartModel
+from gen.kinds import common_keys as K
+from gen.kinds.base import Part, Role
 from gen.validate import measure
 from gen.findings import ERROR, INFO, Finding
 from gen.validate.rack_checks import rack_compare, rack_measure
 
 KIND = "fit_coupon"
+ROLE = Role.PLAIN
 
 #: shape of the coupon (mm unless stated); printing-scale choices of our own
 SECTOR_TEETH = 5        # teeth on each pinion sector
@@ -66,12 +67,13 @@ KEYS = (
     K.PROFILE,
     Key("teeth", "int", 18, lo=2 * SECTOR_TEETH, hi=60,
         doc="teeth of the whole gear the pinion sectors are cut from"),
-    Key("steps", "list", None, lo=0, hi=0.5, unit="mm",
+    Key("steps", "list", None, lo=0, hi=0.5, unit="mm", max_count=MAX_STEPS, ascending=True,
         doc="flank clearances to try, mm per flank, as a list, ascending (default "
             + ", ".join(f"{s:g}" for s in DEFAULT_STEPS) + ")"),
     Key("bore", "float", REQUIRED, lo=1, hi=30, unit="mm",
         doc="nominal hole diameter: the shaft or pin to fit"),
-    Key("bore_steps", "list", None, lo=0, hi=1.0, unit="mm",
+    Key("bore_steps", "list", None, lo=0, hi=1.0, unit="mm", max_count=MAX_STEPS,
+        ascending=True,
         doc="diameter allowances to try, mm, as a list, ascending (default "
             + ", ".join(f"{s:g}" for s in DEFAULT_BORE_STEPS) + ")"),
     Key("thickness", "float", 4.0, lo=1.5, hi=20, unit="mm", doc="height of every piece"),
@@ -168,23 +170,9 @@ def centroid(poly: np.ndarray) -> np.ndarray:
 
 # ---------------------------------------------------------------------- value checking
 def _step_list(values, key: str, default, where) -> list[float]:
+    """The checked list of ``key`` (the schema checked range, count and order), or the default."""
     v = values[key]
-    if v is None:
-        return list(default)
-    items = [v] if isinstance(v, (int, float)) and not isinstance(v, bool) else v
-    spec = next(k for k in KEYS if k.name == key)
-    allowed = f"a list of 1 to {MAX_STEPS} ascending numbers, {spec.range_text()}"
-    if not isinstance(items, list) or not 1 <= len(items) <= MAX_STEPS:
-        raise where.error(key, f"must be a list of 1 to {MAX_STEPS} numbers", v, allowed)
-    out = []
-    for s in items:
-        if isinstance(s, bool) or not isinstance(s, (int, float)) or not math.isfinite(s) \
-                or not spec.lo <= s <= spec.hi:
-            raise where.error(key, f"holds {s!r}, not a number in range", None, allowed)
-        out.append(float(s))
-    if any(b <= a for a, b in zip(out, out[1:])):
-        raise where.error(key, "must be in ascending order without repeats", v, allowed)
-    return out
+    return list(default) if v is None else [float(s) for s in v]
 
 
 # --------------------------------------------------------------------------- the model
@@ -305,17 +293,15 @@ def make(name, values, where):
              "tooth_thickness": [s["sizes"].s for s in sectors], "bore": values["bore"],
              "bore_steps": bore_steps, "hole_diameters": diam, "thickness": t, "face_width": t,
              "footprint": [float(hi[0] - lo[0]), float(hi[1] - lo[1])]}
-    model = PartModel(name=name, kind=KIND, values=values, body=body, sizes=sizes,
-                      findings=findings, chord_tol=tol)
-    model.coupon = {"layout": layout, "measured": measured}
-
-    def mesh_check(slice_polys, z_at):
-        got = measure_coupon(slice_polys, layout)
-        return coupon_findings(name, got, layout, tol=2 * tol + 2e-3, chord=tol,
+    def slice_check(slicer):
+        z_at = 0.5 * t
+        got = measure_coupon(slicer(z_at), layout)
+        return coupon_findings(name, got, layout, tol=2 * tol + TOL.slice_extra, chord=tol,
                                where=f"mesh slice z={z_at:g}")
 
-    model.mesh_check = mesh_check
-    return model
+    return Part(name=name, kind=KIND, role=ROLE, values=values, shape=body, sizes=sizes,
+                findings=tuple(findings), slice_checks=(slice_check,), chord_tol=tol,
+                data={"layout": layout, "measured": measured})
 
 
 # ------------------------------------------------------------------------- measurement

@@ -1,4 +1,4 @@
-"""The ``pitchline`` command line. Subcommands live in :mod:`gen.commands`, one module each.
+"""The ``pitchline`` command line. Subcommands live in :mod:`gen.cli`, one module each.
 
 Exit codes: 0 fine, 1 validation or check failure, 2 usage or unreadable input.
 """
@@ -22,7 +22,7 @@ def parser() -> argparse.ArgumentParser:
     sub = p.add_subparsers(dest="command", metavar="COMMAND")
     for name in COMMANDS:
         try:
-            mod = importlib.import_module(f"gen.commands.{name}")
+            mod = importlib.import_module(f"gen.cli.{name}")
         except ModuleNotFoundError:
             continue
         mod.register(sub)

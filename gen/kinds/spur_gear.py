@@ -3,9 +3,11 @@
 from __future__ import annotations
 
 from gen.params.schema import Key
-from gen.parts.cylgear import GEAR_KEYS, make_gear
+from gen.kinds.base import Role
+from gen.kinds.cylgear import GEAR_KEYS, make_gear
 
 KIND = "spur_gear"
+ROLE = Role.EXTERNAL_GEAR
 KEYS = GEAR_KEYS + (
     Key("helix_angle", "angle", 0.0, lo=0, hi=0, doc="spur gears have none; use helical_gear"),
     Key("module_basis", "enum", "normal", choices=("normal",)),

@@ -50,13 +50,12 @@ def twisted_gear_body(section: Section, face: float, twist: float, chevron: bool
             Prism(upper, h1 + groove, face, twist=-twist)), []
 
 
-def helix_mesh_check(model, sizes, twist: float, chevron: bool, face: float,
-                     groove: float = 0.0):
+def helix_slice_check(name, sizes, twist: float, chevron: bool, face: float,
+                      groove: float = 0.0):
     """Measure the helix on slices of the exported mesh: the turn between two heights is
     Δz·tan β / r_p within 0.05°, and a herringbone's halves mirror about the mid-plane."""
     from gen.validate.helix import check_gear_helix, check_herringbone_mirror
 
-    name = model.name
     beta_signed = math.copysign(sizes.beta, twist)
 
     def check(polys_at):
@@ -102,5 +101,5 @@ def opposite(hand: str) -> str:
 
 
 __all__ = ["HELIX", "HAND", "BASIS", "GROOVE", "normal_values", "twisted_gear_body",
-           "helix_mesh_check", "rack_helix_check", "opposite", "gear_twist",
+           "helix_slice_check", "rack_helix_check", "opposite", "gear_twist",
            "rack_shear"]

@@ -5,7 +5,7 @@ from __future__ import annotations
 import os
 import sys
 
-from gen.commands.output import print_findings, result_summary
+from gen.cli.output import print_findings, result_summary
 
 
 def register(sub):
@@ -38,7 +38,7 @@ def parse_formats(text: str):
 
 def run(args) -> int:
     from gen.build import Progress, build
-    from gen.pipeline import check
+    from gen.check import check
 
     try:
         formats = parse_formats(args.format)
@@ -60,14 +60,14 @@ def run(args) -> int:
         return 1
     report = build(result, args.out, formats, force=args.force, jobs=args.jobs,
                    progress=Progress(len(result.models)), plate=plate)
-    plate_oc = getattr(report, "plate", None)
+    plate_oc = report.plate
     if plate_oc is not None and not plate_oc.ok:
         print_findings(plate_oc.findings)
     for oc in report.outcomes.values():
         if not oc.ok:
             print_findings(oc.findings)
     if result.pairs:
-        from gen.commands.check import write_report
+        from gen.cli.check import write_report
 
         write_report(os.path.join(args.out, "report.html"), result)
     built = sum(o.status == "built" for o in report.outcomes.values())

@@ -12,13 +12,20 @@ from gen.errors import GeometryError
 from gen.geometry.basic_rack import basic_rack
 from gen.geometry.bevel import bevel_sizes, virtual_flank
 from gen.params.schema import REQUIRED, Key
-from gen.parts import common_keys as K
-from gen.parts.base import PartModel
+from gen.kinds import common_keys as K
+from gen.kinds.base import BevelMate, Formula, Part, Role
+from gen.geometry.body import ApexBody
 from gen.validate import measure
 from gen.validate.bevel_checks import bevel_findings
 from gen.findings import ERROR, Finding
 
 KIND = "bevel_gear"
+ROLE = Role.BEVEL_GEAR
+BEVEL_FORMULAS = (
+    Formula("pitch_cone_angle", "tan δ1 = sin Σ / (z2/z1 + cos Σ)", "ISO 23509"),
+    Formula("outer_cone_distance", "R_e = d_e / (2 sin δ)", "ISO 23509"),
+    Formula("virtual_teeth", "z_v = z / cos δ (Tredgold)", "ISO 23509"),
+)
 BORE = Key("bore", "float", 0.0, lo=0, hi=2000, unit="mm", doc="plain bore diameter (0: none)")
 COMMON = (
     K.MODULE, K.TEETH, K.PRESSURE_ANGLE, K.PROFILE,
@@ -37,7 +44,7 @@ KEYS = COMMON + (
 EXAMPLE = {"module": 1.5, "teeth": 20, "mating_teeth": 30, "face_width": 8, "bore": 5}
 
 
-def make_bevel(name, values, where, *, kind, mating_teeth, shaft_angle) -> PartModel:
+def make_bevel(name, values, where, *, kind, mating_teeth, shaft_angle) -> Part:
     rack = basic_rack(values["profile"]).with_alpha(values["pressure_angle"])
     try:
         sizes = bevel_sizes(values["teeth"], mating_teeth, values["module"], shaft_angle,
@@ -54,8 +61,8 @@ def make_bevel(name, values, where, *, kind, mating_teeth, shaft_angle) -> PartM
     return bevel_model(name, kind, values, sizes, flank)
 
 
-def bevel_model(name, kind, values, sizes, flank) -> PartModel:
-    """PartModel of a bevel gear whose sizes and flank are known (parts and assemblies)."""
+def bevel_model(name, kind, values, sizes, flank) -> Part:
+    """Part of a bevel gear whose sizes and flank are known (parts and assemblies)."""
     findings = [Finding(f.severity, f.code, f.message, name, f.source, key=f.key or "teeth")
                 for f in bevel_findings(sizes, flank, subject=name)]
     bore = values.get("bore") or 0.0
@@ -73,24 +80,22 @@ def bevel_model(name, kind, values, sizes, flank) -> PartModel:
                 "pressure_angle": math.degrees(sizes.alpha), "pitch_diameter": sizes.de,
                 "tip_diameter": sizes.dae, "root_diameter": sizes.dfe,
                 "bore": bore, **sizes.manifest()}
-    model = PartModel(name=name, kind=kind, values=values, body=None, sizes=manifest,
-                      findings=findings, chord_tol=chord)
-    model.bevel = {"sizes": sizes, "flank": flank, "bore": bore}
-
     # slice through the middle of the face, on the pitch cone
     R_mid = sizes.Re - sizes.b / 2.0
     z_mid = sizes.mounting_distance - R_mid * math.cos(sizes.delta)
 
-    def mesh_check(polys, _z):
+    def slice_check(slicer):
         out = []
-        outer = max(polys, key=len)
+        outer = max(slicer(z_mid), key=len)
         if measure.tooth_count(outer) != sizes.z:
             out.append(Finding(ERROR, "tooth-count", f"mesh slice z={z_mid:.3f}: counted "
                                f"{measure.tooth_count(outer)} teeth, expected {sizes.z}", name, ""))
         return out
 
-    model.mesh_check, model.mesh_check_z = mesh_check, z_mid
-    return model
+    return Part(name=name, kind=kind, role=Role.BEVEL_GEAR, values=values,
+                shape=ApexBody(sizes, flank, bore), sizes=manifest, findings=tuple(findings),
+                formulas=BEVEL_FORMULAS, mate=BevelMate(sizes, flank),
+                slice_checks=(slice_check,), chord_tol=chord)
 
 
 def make(name, values, where):

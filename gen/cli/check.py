@@ -5,7 +5,7 @@ from __future__ import annotations
 import json
 import sys
 
-from gen.commands.output import print_findings, result_summary
+from gen.cli.output import print_findings, result_summary
 
 
 def register(sub):
@@ -54,7 +54,7 @@ def assembly_lines(assemblies) -> list[str]:
             c = k["command"]
             lines.append(f"    pitch {c['pitch']:g}°, roll {c['roll']:g}° → input 1 "
                          f"{c['theta1']:.3f}°, input 2 {c['theta2']:.3f}°")
-        gaps = [r.min_clearance for r in getattr(a, "reports", [])]
+        gaps = [r.min_clearance for r in a.reports]
         if gaps:
             lines.append(f"    placed in mesh: smallest gap {min(gaps):.3f} mm over one tooth pitch; "
                          f"input back faces {a.sizes['input_back_face_spacing']:.3f} mm apart")
@@ -98,7 +98,7 @@ def write_report(path: str, result) -> None:
 
 
 def run(args) -> int:
-    from gen.pipeline import check
+    from gen.check import check
 
     result = check(args.paths)
     if args.report:
@@ -108,7 +108,7 @@ def run(args) -> int:
         sys.stdout.write("\n")
         return 0 if result.ok else 1
     print(f"checked {result_summary(result)}")
-    from gen.drives import drive_table
+    from gen.check.drives import drive_table
 
     for line in mesh_table(result.pairs) + drive_table(result.drives) + \
             assembly_lines(result.assemblies):

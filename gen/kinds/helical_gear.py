@@ -2,10 +2,12 @@
 
 from __future__ import annotations
 
-from gen.parts.cylgear import GEAR_KEYS, make_gear
-from gen.parts.helical import BASIS, HAND, HELIX, normal_values
+from gen.kinds.base import Role
+from gen.kinds.cylgear import GEAR_KEYS, make_gear
+from gen.kinds.helical import BASIS, HAND, HELIX, normal_values
 
 KIND = "helical_gear"
+ROLE = Role.EXTERNAL_GEAR
 KEYS = GEAR_KEYS + (HELIX, HAND, BASIS)
 EXAMPLE = {"module": 1.5, "teeth": 24, "face_width": 10, "helix_angle": 20, "bore": 5}
 

@@ -3,10 +3,12 @@ mid-plane (no axial thrust), with an optional plain centre groove."""
 
 from __future__ import annotations
 
-from gen.parts.cylgear import GEAR_KEYS, make_gear
-from gen.parts.helical import BASIS, GROOVE, HAND, HELIX, normal_values
+from gen.kinds.base import Role
+from gen.kinds.cylgear import GEAR_KEYS, make_gear
+from gen.kinds.helical import BASIS, GROOVE, HAND, HELIX, normal_values
 
 KIND = "herringbone_gear"
+ROLE = Role.EXTERNAL_GEAR
 KEYS = GEAR_KEYS + (HELIX, HAND, BASIS, GROOVE)
 EXAMPLE = {"module": 1.5, "teeth": 24, "face_width": 12, "helix_angle": 25, "bore": 5}
 

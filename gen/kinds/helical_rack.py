@@ -4,10 +4,12 @@ the opposite hand."""
 
 from __future__ import annotations
 
-from gen.parts.helical import BASIS, HAND, HELIX, normal_values
-from gen.parts.rack import RACK_KEYS, make_rack
+from gen.kinds.base import Role
+from gen.kinds.helical import BASIS, HAND, HELIX, normal_values
+from gen.kinds.rack import RACK_KEYS, make_rack
 
 KIND = "helical_rack"
+ROLE = Role.RACK
 KEYS = RACK_KEYS + (HELIX, HAND, BASIS)
 EXAMPLE = {"module": 1.5, "length": 120, "face_width": 10, "height": 8, "helix_angle": 20,
            "hand": "left"}

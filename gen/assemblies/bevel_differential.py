@@ -20,22 +20,24 @@ each in its own printable frame (back face on z = 0). Sign conventions: see
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass, field, replace
+from dataclasses import replace
 
-from gen.errors import GeometryError, ParamError
+from gen.errors import GeometryError
 from gen.geometry.basic_rack import basic_rack
 from gen.geometry.bevel import virtual_flank
-from gen.geometry.differential import bevel_differential, carrier_and_roll, input_commands
-from gen.params.schema import REQUIRED, Key, Where, check_mapping, suggest
-from gen.parts import common_keys as K
-from gen.parts.bevel_gear import bevel_model
+from gen.geometry.differential import (bevel_differential, carrier_and_roll, gear_poses,
+                                       input_commands)
+from gen.assemblies import Assembly
+from gen.params.schema import REQUIRED, Key, check_mapping
+from gen.kinds import common_keys as K
+from gen.kinds.bevel_gear import bevel_model
 from gen.validate.bevel_interference import differential_findings
 from gen.findings import ERROR, INFO, Finding
 from gen.params.project import display_path
 
-ASSEMBLY_KINDS = ("bevel_differential",)
-DIFF_KEYS = (
-    Key("kind", "enum", REQUIRED, choices=ASSEMBLY_KINDS),
+KIND = "bevel_differential"
+KEYS = (
+    Key("kind", "enum", REQUIRED, choices=(KIND,)),
     K.MODULE,
     Key("input_teeth", "int", REQUIRED, lo=6, hi=400),
     Key("output_teeth", "int", REQUIRED, lo=6, hi=400),
@@ -59,32 +61,16 @@ DIFF_KEYS = (
 )
 
 
-@dataclass
-class Assembly:
-    name: str
-    kind: str
-    values: dict
-    diff: object
-    parts: dict                          # gear name in the differential -> part name
-    findings: list = field(default_factory=list)
-    kinematics: dict = field(default_factory=dict)
-    file: str = ""
-
-
 def _gear_values(values, which: str) -> dict:
     return {"bore": values[f"{which}_bore"], "chord_tolerance": values["chord_tolerance"],
             "module": values["module"], "face_width": values["face_width"],
             "material": values["material"]}
 
 
-def build_assembly(entry) -> tuple[Assembly, dict]:
-    """(Assembly, {part name: PartModel}) from a raw ``assemblies`` entry; raises ParamError."""
-    where = Where(entry.file, entry.label, entry.line)
-    kind = entry.values.get("kind")
-    if kind not in ASSEMBLY_KINDS:
-        raise where.error("kind", f"unknown assembly kind {kind!r}"
-                          f"{suggest(str(kind), ASSEMBLY_KINDS)}", allowed=", ".join(ASSEMBLY_KINDS))
-    v = check_mapping(entry.values, DIFF_KEYS, where)
+def build(entry, where) -> tuple[Assembly, dict]:
+    """(Assembly, {part name: Part}) from a raw ``assemblies`` entry; raises ParamError."""
+    kind = KIND
+    v = check_mapping(entry.values, KEYS, where)
     rack = basic_rack(v["profile"]).with_alpha(v["pressure_angle"])
     try:
         diff = bevel_differential(v["input_teeth"], v["output_teeth"], v["module"],
@@ -93,7 +79,7 @@ def build_assembly(entry) -> tuple[Assembly, dict]:
     except GeometryError as exc:
         key = "face_width" if "face" in str(exc) else "input_teeth"
         raise where.error(key, str(exc), v[key]) from None
-    asm = Assembly(entry.label, kind, v, diff, {}, file=entry.file)
+    asm = Assembly(entry.label, kind, v, {}, file=entry.file, detail=diff)
     models = {}
     flank_in, flank_out = virtual_flank(diff.input), virtual_flank(diff.output)
     for gear in diff.names:
@@ -102,8 +88,7 @@ def build_assembly(entry) -> tuple[Assembly, dict]:
         sizes = diff.input if which == "input" else diff.output
         model = bevel_model(part, "bevel_gear", _gear_values(v, which), sizes,
                             flank_in if which == "input" else flank_out)
-        model.assembly = entry.label
-        models[part] = model
+        models[part] = model.with_(assembly=entry.label)
         asm.parts[gear] = part
     # kinematics, with a worked example
     zi, zo = v["input_teeth"], v["output_teeth"]
@@ -152,25 +137,6 @@ def build_assembly(entry) -> tuple[Assembly, dict]:
                                 f"{asm.kinematics['inverse']}", entry.label,
                                 "differential kinematics", where=f"{rel}:{entry.line(None)}",
                                 scope="assembly"))
+    poses = gear_poses(diff)
+    asm.poses = {asm.parts[g]: poses[g] for g in diff.names}
     return asm, models
-
-
-def check_assemblies(result) -> None:
-    for entry in result.project.entries.get("assemblies", []):
-        try:
-            asm, models = build_assembly(entry)
-        except ParamError as exc:
-            result.findings.append(Finding(ERROR, "parameter", exc.one_line(), entry.label, ""))
-            continue
-        clash = [n for n in models if n in result.project.parts or n in result.models]
-        if clash:
-            result.findings.append(Finding(ERROR, "parameter", f"assembly '{entry.label}' makes a "
-                                           f"part '{clash[0]}' whose name is already taken",
-                                           entry.label, ""))
-            continue
-        result.models.update(models)
-        for m in models.values():
-            result.findings += [replace(f, where=f.where or display_path(entry.file))
-                                for f in m.findings]
-        result.findings += asm.findings
-        result.assemblies.append(asm)

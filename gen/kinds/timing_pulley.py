@@ -14,13 +14,19 @@ from gen.geometry.body import Body, Prism, RadialHole
 from gen.geometry.pulley import PROFILES, lookup_profile, pulley_loop, pulley_sizes
 from gen.geometry.section import Section, circle
 from gen.params.schema import REQUIRED, Key
-from gen.parts import common_keys as K
-from gen.parts.base import PartModel
-from gen.parts.cylgear import bore_of
+from gen.kinds import common_keys as K
+from gen.kinds.base import Formula, Part, PulleyMate, Role
+from gen.tolerances import TOL
+from gen.kinds.cylgear import bore_of
 from gen.findings import ERROR, WARNING, Finding
 from gen.validate.pulley_checks import measure_pulley, pulley_findings
 
 KIND = "timing_pulley"
+ROLE = Role.PULLEY
+FORMULAS = (
+    Formula("pitch_diameter", "d_p = z·p/π", "ISO 5288"),
+    Formula("outside_diameter", "d_o = d_p − 2a (a: pitch-line differential)", "ISO 5288"),
+)
 #: tap-drill diameters for ISO metric coarse set screws (from memory; common practice)
 SET_SCREW_DRILL = {"M2": 1.6, "M2.5": 2.05, "M3": 2.5, "M4": 3.3, "M5": 4.2, "M6": 5.0}
 #: toothed band longer than the belt so it runs clear of the flanges (common practice)
@@ -120,16 +126,11 @@ def make(name, values, where):
     if values["teeth"] < prof.min_teeth and values["force"]:
         findings.append(Finding(WARNING, "small-pulley", "belt life is short below the minimum "
                                 "tooth count", name, prof.note, key="teeth"))
-    model = PartModel(name=name, kind=KIND, values=values, body=body, sizes=manifest,
-                      findings=findings, outline=loop.polygon(chord), chord_tol=chord)
-    model.tooth = {}
-    model.pulley = {"profile": prof.name, "teeth": sizes.teeth, "sizes": sizes}
-
-    def mesh_check(polys, _z):
-        outer = max(polys, key=len)
+    def slice_check(slicer):
+        outer = max(slicer(z_mid), key=len)
         got = measure_pulley(outer)
         out = []
-        tol = chord + 2e-3
+        tol = chord + TOL.slice_extra
         if abs(got.outside_diameter - sizes.fit_outside_diameter) > 2 * tol:
             out.append(Finding(ERROR, "size-mismatch", f"mesh slice: outside diameter "
                                f"{got.outside_diameter:.4f} mm, formula "
@@ -139,7 +140,8 @@ def make(name, values, where):
                                f"expected {sizes.teeth}", name, ""))
         return out
 
-    model.mesh_check = mesh_check
-    model.mesh_check_z = z_mid
-    model.profile_section = Section(loop, holes)
-    return model
+    return Part(name=name, kind=KIND, role=ROLE, values=values, shape=body, sizes=manifest,
+                findings=tuple(findings), formulas=FORMULAS,
+                mate=PulleyMate(prof.name, sizes.teeth), outline=loop.polygon(chord),
+                section=Section(loop, holes), slice_checks=(slice_check,), chord_tol=chord,
+                data={"sizes": sizes})

@@ -4,9 +4,11 @@ from __future__ import annotations
 
 import math
 
-from gen.parts.bevel_gear import COMMON, make_bevel
+from gen.kinds.base import Role
+from gen.kinds.bevel_gear import COMMON, make_bevel
 
 KIND = "miter_gear"
+ROLE = Role.BEVEL_GEAR
 KEYS = COMMON
 EXAMPLE = {"module": 1.5, "teeth": 20, "face_width": 6, "bore": 5}
 

@@ -9,7 +9,7 @@ from dataclasses import dataclass, field, replace
 
 from gen.errors import ParamError
 from gen.params.project import display_path, RawProject, load_project
-from gen.parts.base import resolve
+from gen.kinds.base import resolve
 from gen.findings import ERROR, Finding, has_errors
 
 
@@ -20,7 +20,7 @@ class CheckResult:
     findings: list = field(default_factory=list)
     pairs: list = field(default_factory=list)       # per-mesh result dicts
     drives: list = field(default_factory=list)      # per-belt-drive result dicts
-    assemblies: list = field(default_factory=list)  # gen.assemblies.Assembly
+    assemblies: list = field(default_factory=list)  # gen.assemblies.bevel_differential.Assembly
 
     @property
     def ok(self) -> bool:
@@ -57,12 +57,12 @@ def check(paths) -> CheckResult:
         except ParamError as exc:
             result.findings.append(_param_finding(exc))
             continue
-        model.findings = [_locate(f, raw) for f in model.findings]
+        model = model.with_(findings=tuple(_locate(f, raw) for f in model.findings))
         result.models[name] = model
         result.findings += model.findings
-    from gen.assemblies import check_assemblies
-    from gen.drives import check_drives
-    from gen.pairs import check_meshes
+    from gen.check.assemblies import check_assemblies
+    from gen.check.drives import check_drives
+    from gen.check.meshes import check_meshes
 
     check_assemblies(result)
     check_meshes(result)

@@ -14,13 +14,21 @@ from gen.geometry.body import Body, Prism
 from gen.geometry.rack_outline import rack_loop, rack_sizes
 from gen.geometry.section import Section
 from gen.params.schema import REQUIRED, Key
-from gen.parts import common_keys as K
-from gen.parts.base import PartModel
+from gen.kinds import common_keys as K
+from gen.kinds.base import Formula, Part, RackMate, Role
+from gen.tolerances import TOL
 from gen.findings import ERROR, INFO, Finding
 from gen.geometry.modules import module_series
 from gen.validate.rack_checks import rack_compare, rack_measure
 
 KIND = "rack"
+ROLE = Role.RACK
+RACK_FORMULAS = (
+    Formula("pitch", "p = π·m_n / cos β", "ISO 53 / ISO 21771"),
+    Formula("tooth_thickness", "s = p/2 − thinning", "ISO 53"),
+    Formula("addendum", "h_a = h_aP*·m", "ISO 53"),
+    Formula("dedendum", "h_f = h_fP*·m", "ISO 53"),
+)
 RACK_KEYS = (K.MODULE, K.PRESSURE_ANGLE, K.PROFILE, K.FACE_WIDTH, K.BACKLASH_ALLOWANCE,
              K.MATERIAL, K.SAFETY_FACTOR, K.FIT, K.FORCE, K.CHORD,
              Key("length", "float", None, lo=0, hi=5000, lo_open=True, unit="mm"),
@@ -56,7 +64,7 @@ def make_rack(name, values, where, *, kind, beta=0.0, hand=None, chevron=False):
         findings.append(Finding(INFO, "module-series", f"module {m:g} mm is not in the ISO 54 / "
                                 "DIN 780 preferred series", name, "ISO 54 / DIN 780", key="module"))
     if beta:
-        from gen.parts.helical import opposite, rack_shear
+        from gen.kinds.helical import opposite, rack_shear
         # a rack meshes with the pinion of the opposite hand
         shear = rack_shear(beta, mates_with=opposite(hand))
     else:
@@ -68,26 +76,25 @@ def make_rack(name, values, where, *, kind, beta=0.0, hand=None, chevron=False):
                 "addendum": sizes.addendum, "dedendum": sizes.dedendum}
     if beta:
         manifest["helix_angle"] = math.degrees(beta)
-    model = PartModel(name=name, kind=kind, values=values, body=body, sizes=manifest,
-                      findings=findings, outline=poly, chord_tol=values["chord_tolerance"])
-    model.tooth = {"role": "rack", "rack_sizes": sizes, "profile": values["profile"],
-                   "face_width": values["face_width"], "alpha_n": rack.alpha, "beta": beta}
     chord = values["chord_tolerance"]
 
-    def mesh_check(polys, z):
-        got = rack_measure(max(polys, key=len), sizes)
-        return rack_compare(name, got, sizes, tol=2 * chord + 2e-3, where=f"mesh slice z={z:g}")
+    def slice_check(slicer):
+        z = 0.5 * values["face_width"]
+        got = rack_measure(max(slicer(z), key=len), sizes)
+        return rack_compare(name, got, sizes, tol=2 * chord + TOL.slice_extra,
+                            where=f"mesh slice z={z:g}")
 
-    # slanted racks: their slices are measured by ``helix_check`` below instead
-    model.mesh_check = mesh_check if not chevron and not shear else None
-    model.profile_section = Section(loop)
+    # slanted racks: their slices are measured by the helix check instead
+    checks = (slice_check,) if not chevron and not shear else ()
     if beta:
-        from gen.parts.helical import rack_helix_check
+        from gen.kinds.helical import rack_helix_check
 
-        model.helix_check = rack_helix_check(name, sizes.pitch, shear, chevron,
-                                             values["face_width"])
-        model.tooth.update(hand=hand, chevron=chevron)
-    return model
+        checks += (rack_helix_check(name, sizes.pitch, shear, chevron, values["face_width"]),)
+    return Part(name=name, kind=kind, role=Role.RACK, values=values, shape=body,
+                sizes=manifest, findings=tuple(findings), formulas=RACK_FORMULAS,
+                mate=RackMate(sizes, values["profile"], values["face_width"], rack.alpha,
+                              beta=beta, hand=hand, chevron=chevron),
+                outline=poly, section=Section(loop), slice_checks=checks, chord_tol=chord)
 
 
 def make(name, values, where):

@@ -18,9 +18,10 @@ from gen.geometry.features import Bore
 from gen.geometry.gear_outline import gear_loop
 from gen.geometry.generate import generate_flank
 from gen.geometry.section import Section, circle
-from gen.parts.base import PartModel
-from gen.parts import common_keys as K
+from gen.kinds.base import Formula, GearMate, Part, Role
+from gen.kinds import common_keys as K
 from gen.findings import ERROR, WARNING, Finding
+from gen.tolerances import TOL
 from gen.validate.gear_checks import compare_sizes, gear_findings, measured_sizes
 
 GEAR_KEYS = (K.MODULE, K.TEETH, K.PRESSURE_ANGLE, K.PROFILE, K.PROFILE_SHIFT, K.FACE_WIDTH,
@@ -37,7 +38,7 @@ def bore_of(values) -> Bore | None:
 
 
 def make_gear(name: str, values: dict, where, *, kind: str, beta: float = 0.0,
-              hand: str | None = None, chevron: bool = False, groove: float = 0.0) -> PartModel:
+              hand: str | None = None, chevron: bool = False, groove: float = 0.0) -> Part:
     """Generate, measure and describe one cylindrical gear.
 
     ``beta`` is the helix angle (rad), ``hand`` "right"/"left" for helical gears (None: spur),
@@ -61,7 +62,7 @@ def make_gear(name: str, values: dict, where, *, kind: str, beta: float = 0.0,
     # a pointed tooth has no outline: report it and stop
     if flank.psi[-1] <= 0:
         findings += gear_findings(name, sizes, cutter, flank, None, force=values["force"])
-        return _model(name, kind, values, None, sizes, findings, None, flank, beta)
+        return _part(name, kind, values, None, sizes, findings, None, flank, beta, rack)
     loop = gear_loop(flank)
     poly = loop.polygon(values["chord_tolerance"])
     bore_r = None
@@ -77,7 +78,7 @@ def make_gear(name: str, values: dict, where, *, kind: str, beta: float = 0.0,
                               rack_root=rack.root_radius * m)
     findings += min_feature_findings(name, fit, flank, sizes, bore_r)
     if beta:
-        from gen.parts.helical import gear_twist, twisted_gear_body
+        from gen.kinds.helical import gear_twist, twisted_gear_body
 
         twist = gear_twist(beta, sizes.rp, hand)
         solids, extra = twisted_gear_body(Section(loop, holes), b, twist, chevron, groove,
@@ -97,18 +98,16 @@ def make_gear(name: str, values: dict, where, *, kind: str, beta: float = 0.0,
                                     "leaves no wall around the bore", name, "geometry", key="hub"))
         solids.append(Prism(Section(circle(hub["diameter"] / 2.0), holes), b, b + hub["length"]))
     body = Body(tuple(solids))
-    model = _model(name, kind, values, body, sizes, findings, poly, flank, beta)
-    model.profile_section = solids[0].section
+    part = _part(name, kind, values, body, sizes, findings, poly, flank, beta, rack,
+                 hand=hand, chevron=chevron)
+    checks = list(part.slice_checks)
+    if chevron:   # measure inside the lower half, clear of any groove
+        checks = [size_slice_check(name, sizes, flank, values["chord_tolerance"], b / 4.0)]
     if beta:
-        from gen.parts.helical import helix_mesh_check
+        from gen.kinds.helical import helix_slice_check
 
-        model.helix_check = helix_mesh_check(model, sizes, twist, chevron, b, groove)
-        model.tooth.update(hand=hand, chevron=chevron)
-        if chevron:
-            model.mesh_check_z = b / 4.0  # inside the lower half, clear of any groove
-    # computed on first use (a mesh with a declared torque, or the manifest), then kept
-    model.rating = functools.lru_cache(maxsize=1)(lambda: gear_rating(name, values, sizes, rack))
-    return model
+        checks.append(helix_slice_check(name, sizes, twist, chevron, b, groove))
+    return part.with_(section=solids[0].section, slice_checks=tuple(checks))
 
 
 def min_feature_findings(name, fit, flank, sizes, bore_r) -> list:
@@ -140,7 +139,33 @@ def gear_rating(name, values, sizes, rack) -> dict:
             "rpm": values["rpm"], "loaded": gear}
 
 
-def _model(name, kind, values, body, sizes, findings, poly, flank, beta):
+#: what a cylindrical gear's sizes are measured against
+GEAR_FORMULAS = (
+    Formula("pitch_diameter", "d = z·m_n / cos β", "ISO 21771"),
+    Formula("base_diameter", "d_b = d·cos α_t", "ISO 21771"),
+    Formula("tip_diameter", "d_a = d + 2 m_n (h_aP* + x − k)", "ISO 21771"),
+    Formula("root_diameter", "d_f = d − 2 m_n (h_fP* − x)", "ISO 21771"),
+    Formula("tooth_thickness", "s = m_t (π/2 + 2 x tan α_n) − thinning", "ISO 21771"),
+)
+
+
+def size_slice_check(name, sizes, flank, chord, z):
+    """Measure the outer outline of a slice of the exported triangles at height ``z``."""
+
+    def check(slicer):
+        polys = slicer(z)
+        outer = max(polys, key=lambda p: abs(_area(p)))
+        got = measured_sizes(outer, sizes)
+        return compare_sizes(name, got, sizes, size_tol=chord + TOL.slice_extra,
+                             thickness_tol=2 * chord + TOL.slice_extra,
+                             where=f"mesh slice z={z:g}",
+                             check_thickness=flank.r_junction <= sizes.rp <= sizes.ra)
+
+    return check
+
+
+def _part(name, kind, values, body, sizes, findings, poly, flank, beta, rack, *,
+          hand=None, chevron=False):
     manifest = {
         "module": sizes.mn,
         "teeth": sizes.z,
@@ -160,22 +185,18 @@ def _model(name, kind, values, body, sizes, findings, poly, flank, beta):
     if beta:
         manifest.update(helix_angle=math.degrees(beta), transverse_module=sizes.mt,
                         transverse_pressure_angle=math.degrees(sizes.alpha_t))
-    model = PartModel(name=name, kind=kind, values=values, body=body, sizes=manifest,
-                      findings=findings, outline=poly, chord_tol=values["chord_tolerance"])
-    model.tooth = {"role": "gear", "sizes": sizes, "flank": flank, "profile": values["profile"],
-                   "face_width": values["face_width"]}
     chord = values["chord_tolerance"]
-
-    def mesh_check(polys, z):
-        """Measure a slice of the exported mesh (outer outline) against the formulas."""
-        outer = max(polys, key=lambda p: abs(_area(p)))
-        got = measured_sizes(outer, sizes)
-        return compare_sizes(name, got, sizes, size_tol=chord + 2e-3,
-                             thickness_tol=2 * chord + 2e-3, where=f"mesh slice z={z:g}",
-                             check_thickness=flank.r_junction <= sizes.rp <= sizes.ra)
-
-    model.mesh_check = mesh_check
-    return model
+    checks = ()
+    if body is not None:
+        checks = (size_slice_check(name, sizes, flank, chord, 0.5 * values["face_width"]),)
+    # computed on first use (a mesh with a declared torque, or the manifest), then kept
+    rating = (functools.lru_cache(maxsize=1)(lambda: gear_rating(name, values, sizes, rack))
+              if body is not None else None)
+    return Part(name=name, kind=kind, role=Role.EXTERNAL_GEAR, values=values, shape=body,
+                sizes=manifest, findings=tuple(findings), formulas=GEAR_FORMULAS,
+                mate=GearMate(sizes, flank, values["profile"], values["face_width"],
+                              hand=hand, chevron=chevron),
+                outline=poly, slice_checks=checks, rating=rating, chord_tol=chord)
 
 
 def _area(p):

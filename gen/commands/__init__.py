@@ -1,1 +1,0 @@
-"""Subcommands of the ``pitchline`` command line, one module each (``register`` + ``run``)."""
