@@ -108,6 +108,14 @@ def test_lead_screw_self_locking_holds_anything():
     assert res.move_limit == pytest.approx(0.3 * 2 * math.pi / 0.002 * 0.35)
 
 
+def test_bevel_stage_and_force_at_radius():
+    # 20 N on a 50 mm arm = 1 N·m; a 16→32 bevel pair (i 2, η 0.97 common practice) (computed)
+    load = Load.force_at_radius(20.0, 50.0)
+    assert load.torque == pytest.approx(1.0)
+    res = solve_chain(LineMotor(1.0, 100), [gear_stage(16, 32, kind="bevel")], load)
+    assert res.motor_torque == pytest.approx(1.0 / (2 * 0.97))
+
+
 def test_too_heavy_load_does_not_move():
     res = solve_chain(LineMotor(0.1, 1000), [gear_stage(10, 30)], Load(torque=1.0))
     assert not res.moves and res.motor_speed == 0.0 and res.output_speed == 0.0
