@@ -9,7 +9,7 @@ import argparse
 import importlib
 import sys
 
-COMMANDS = ("build", "check", "new", "belt")
+COMMANDS = ("build", "check", "new", "belt", "ratio")
 
 
 def parser() -> argparse.ArgumentParser:
