@@ -136,21 +136,34 @@ def screw_axial_profile(s: ThreadSizes) -> np.ndarray:
                      (ra, wa / 2.0), (r3, w3 / 2.0), (r3, h), (0.0, h)])
 
 
-def _radii(lo: float, hi: float, n: int) -> np.ndarray:
+def _radii(lo: float, hi: float, n: int | None, turn: float, sag: float = 1e-4) -> np.ndarray:
+    """Radii for a flank running from lo to hi while its angle changes by ``turn`` (rad).
+
+    With n None the count is chosen so a polyline through the samples stays within ``sag``
+    mm of the spiral: a chord spanning Δθ on radius r sags about r Δθ² / 8.
+    """
+    if n is None:
+        step = math.sqrt(8.0 * sag / hi)
+        n = max(16, int(math.ceil(abs(turn) / step)) + 1)
     return np.linspace(lo, hi, n)
 
 
-def screw_section(s: ThreadSizes, samples: int = 24, phase: float = 0.0) -> Loop:
+def _turn(s: ThreadSizes, lo: float, hi: float) -> float:
+    return math.pi * float(s.width_at(lo) - s.width_at(hi)) / s.lead
+
+
+def screw_section(s: ThreadSizes, samples: int | None = None, phase: float = 0.0) -> Loop:
     """Transverse section of the screw at z = 0 as a Loop (flanks as Splines), mm.
 
     Lobe k is centred at polar angle ``phase`` + 2π k / n. Carry it with
-    :func:`screw_twist` to sweep the thread.
+    :func:`screw_twist` to sweep the thread. ``samples``: radii per flank (default: enough
+    for the flank polyline to stay within 0.1 µm of the spiral).
     """
-    r = _radii(s.d3 / 2.0, s.d / 2.0, samples)
+    r = _radii(s.d3 / 2.0, s.d / 2.0, samples, _turn(s, s.d3 / 2.0, s.d / 2.0))
     return helicoid_loop(r, s.width_at(r), s.lead, s.starts, phase)
 
 
-def screw_polygon(s: ThreadSizes, tol: float = 0.01, samples: int = 24) -> np.ndarray:
+def screw_polygon(s: ThreadSizes, tol: float = 0.01, samples: int | None = None) -> np.ndarray:
     """The same transverse section as an (n, 2) polygon, arcs at chordal tolerance ``tol``."""
     return screw_section(s, samples).polygon(tol)
 
@@ -221,16 +234,17 @@ def nut_axial_profile(nut: NutThread, outer_radius: float) -> np.ndarray:
                      (r1, p - g1 / 2.0), (r1, g1 / 2.0), (r4, g4 / 2.0), (r4, 0.0)])
 
 
-def nut_section(nut: NutThread, samples: int = 24, phase: float = 0.0) -> Loop:
+def nut_section(nut: NutThread, samples: int | None = None, phase: float = 0.0) -> Loop:
     """Transverse section (z = 0) of the nut's threaded hole as a Loop, mm.
 
     The hole is the region the nut does not occupy: everything inside its minor circle plus
     the groove lobes, groove k centred at ``phase`` + 2π k / n like the screw's thread.
     """
-    r = _radii(nut.minor_diameter / 2.0, nut.root_diameter / 2.0, samples)
+    lo, hi = nut.minor_diameter / 2.0, nut.root_diameter / 2.0
+    r = _radii(lo, hi, samples, _turn(nut.sizes, lo, hi))
     return helicoid_loop(r, nut.groove_width(r), nut.sizes.lead, nut.sizes.starts, phase)
 
 
-def nut_polygon(nut: NutThread, tol: float = 0.01, samples: int = 24) -> np.ndarray:
+def nut_polygon(nut: NutThread, tol: float = 0.01, samples: int | None = None) -> np.ndarray:
     """The nut's hole section as an (n, 2) polygon at chordal tolerance ``tol``."""
     return nut_section(nut, samples).polygon(tol)
