@@ -4,7 +4,7 @@ import math
 
 import numpy as np
 import pytest
-from shapely.geometry import LineString, Polygon, box
+from shapely.geometry import LineString, Polygon
 from shapely.ops import unary_union
 
 from gen.errors import GeometryError
