@@ -31,7 +31,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from gen.errors import GeometryError
-from gen.geometry.helicoid import helicoid_loop, twist_rate
+from gen.geometry.helicoid import flank_samples, helicoid_loop, twist_rate
 from gen.geometry.section import Loop
 
 #: least pitch-diameter / cable-diameter ratio per cable construction (common practice:
@@ -202,14 +202,19 @@ def groove_axial_profile(s: DrumSizes, samples: int = 33) -> np.ndarray:
     return np.vstack([[(0.0, -h), (ro, -h)], arc[::-1], [(ro, h), (0.0, h)]])
 
 
-def drum_section(s: DrumSizes, samples: int = 33) -> Loop:
+def drum_section(s: DrumSizes, samples: int | None = None, sag: float = 1e-4) -> Loop:
     """Transverse section (z = 0) of the grooved drum as a Loop, mm; sweep with
     :func:`drum_twist`. The groove is centred on angle 0, the land on angle π.
 
     The radii are spaced densely near the groove bottom, where the land's flank turns
-    fastest (the groove circle meets the bottom tangentially).
+    fastest (the groove circle meets the bottom tangentially). The land's flank turns through
+    nearly half a turn over the groove depth, so by default it gets enough ``samples`` for its
+    polyline to stay within ``sag`` mm of the curve (hundreds on a large drum).
     """
     r0, ro = s.drum_diameter / 2.0, s.outer_diameter / 2.0
+    if samples is None:
+        turn = math.pi * (s.groove_pitch - float(s.land_width_at(ro))) / s.groove_pitch
+        samples = flank_samples(turn, ro, sag, least=33)
     t = np.linspace(0.0, 1.0, samples)
     r = r0 + (ro - r0) * (1.0 - np.cos(0.5 * math.pi * t))
     return helicoid_loop(r, s.land_width_at(r), s.groove_pitch, 1, phase=math.pi)

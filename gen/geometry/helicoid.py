@@ -84,6 +84,15 @@ def helicoid_loop(r, width, lead: float, starts: int = 1, phase: float = 0.0) ->
     return Loop(tuple(curves))
 
 
+def flank_samples(turn: float, r_max: float, sag: float = 1e-4, least: int = 16) -> int:
+    """Samples for a flank that turns through ``turn`` rad at radii up to ``r_max`` (mm) so
+    that its polyline stays within ``sag`` mm of the curve: a chord spanning Δθ on radius r
+    sags about r Δθ² / 8, so Δθ = √(8 sag / r) (computed; assumes roughly even angle steps).
+    """
+    step = math.sqrt(8.0 * sag / r_max)
+    return max(least, int(math.ceil(abs(turn) / step)) + 1)
+
+
 def twist_rate(lead: float, hand: str = "right") -> float:
     """Twist (rad per mm of height) that sweeps a helicoid of lead L: ±2π / L, + right-hand."""
     if lead <= 0:

@@ -33,7 +33,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from gen.errors import GeometryError
-from gen.geometry.helicoid import helicoid_loop, twist_rate
+from gen.geometry.helicoid import flank_samples, helicoid_loop, twist_rate
 from gen.geometry.section import Loop
 
 TRAPEZOIDAL, METRIC = "trapezoidal", "metric"
@@ -140,11 +140,10 @@ def _radii(lo: float, hi: float, n: int | None, turn: float, sag: float = 1e-4) 
     """Radii for a flank running from lo to hi while its angle changes by ``turn`` (rad).
 
     With n None the count is chosen so a polyline through the samples stays within ``sag``
-    mm of the spiral: a chord spanning Δθ on radius r sags about r Δθ² / 8.
+    mm of the spiral (:func:`gen.geometry.helicoid.flank_samples`).
     """
     if n is None:
-        step = math.sqrt(8.0 * sag / hi)
-        n = max(16, int(math.ceil(abs(turn) / step)) + 1)
+        n = flank_samples(turn, hi, sag)
     return np.linspace(lo, hi, n)
 
 
