@@ -1,6 +1,5 @@
 """Pinion and ring outlines rolled through one pitch (gen.validate.internal_sweep)."""
 
-import math
 from functools import lru_cache
 
 import pytest
