@@ -87,6 +87,17 @@ CODES = {
     "loose-mesh": "placed bevel gears stand apart",
     "apex-offset": "a bevel gear's apex is off the common apex",
     "kinematics": "the kinematic relations of an assembly",
+    # planetary sets
+    "planetary-not-coaxial": "sun–planet and planet–ring working distances differ",
+    "planet-spacing-unequal": "the planets cannot be spaced equally",
+    "planets-collide": "neighbouring planets' tips do not clear",
+    "ring-tooth-difference": "ring and planet tooth counts are too close",
+    # drive trains (issue 17)
+    "chain-stalls": "the motor cannot move the load through the chain",
+    "chain-slow": "the chain turns the output slower than wanted",
+    "stage-overload": "a stage carries more than its allowable torque",
+    "stage-stall-overload": "a stage carries more than its allowable torque at motor stall",
+    "chain-summary": "ratio, efficiency, output and weakest stage of a drive train",
     # fit coupon
     "coupon-steps": "what the coupon holds",
     "coupon-reading": "how to read the coupon",

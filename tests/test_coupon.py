@@ -157,16 +157,13 @@ def _make(values):
     from gen.kinds import coupon
 
     where = Where("test.yaml", "c", lambda key: None)
-    plain = {k: v for k, v in values.items() if k not in ("steps", "bore_steps")}
-    checked = check_mapping(plain, coupon.KEYS, where)
-    checked.update({k: values[k] for k in ("steps", "bore_steps") if k in values})
-    return coupon.make("c", checked, where)
+    return coupon.make("c", check_mapping(values, coupon.KEYS, where), where)
 
 
 def test_bad_step_lists_are_refused():
     with pytest.raises(ParamError, match="ascending"):
         _make({"module": 1.5, "bore": 5, "steps": [0.1, 0.05]})
-    with pytest.raises(ParamError, match="1 to 8"):
+    with pytest.raises(ParamError, match="at most 8"):
         _make({"module": 1.5, "bore": 5, "bore_steps": [0.1 * i for i in range(9)]})
     with pytest.raises(ParamError, match="pointed"):
         _make({"module": 0.5, "bore": 2, "steps": [0.0, 0.2]})

@@ -99,7 +99,8 @@ def check_drives(result) -> None:
         found = [replace(f, subject=entry.label, where=f"{rel}:{entry.line(None)}", scope="drive")
                  for f in sol.findings]
         result.findings += found
-        result.drives.append({"name": entry.label, "solution": sol, "findings": found})
+        result.drives.append({"name": entry.label, "solution": sol, "findings": found,
+                              "pulleys": v["pulleys"]})
 
 
 def drive_table(drives) -> list[str]:

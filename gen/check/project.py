@@ -16,11 +16,12 @@ from gen.findings import ERROR, Finding, has_errors
 @dataclass
 class CheckResult:
     project: RawProject
-    models: dict = field(default_factory=dict)      # name -> PartModel
+    models: dict = field(default_factory=dict)      # name -> gen.kinds.base.Part
     findings: list = field(default_factory=list)
     pairs: list = field(default_factory=list)       # per-mesh result dicts
     drives: list = field(default_factory=list)      # per-belt-drive result dicts
-    assemblies: list = field(default_factory=list)  # gen.assemblies.bevel_differential.Assembly
+    assemblies: list = field(default_factory=list)  # gen.assemblies.Assembly
+    drivetrains: list = field(default_factory=list)  # gen.check.drivetrains.DrivetrainResult
 
     @property
     def ok(self) -> bool:
@@ -67,4 +68,7 @@ def check(paths) -> CheckResult:
     check_assemblies(result)
     check_meshes(result)
     check_drives(result)
+    from gen.check.drivetrains import check_drivetrains
+
+    check_drivetrains(result)
     return result

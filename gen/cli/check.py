@@ -61,6 +61,29 @@ def assembly_lines(assemblies) -> list[str]:
     return lines
 
 
+def drivetrain_lines(drivetrains) -> list[str]:
+    """Each drive train as a stage table (rpm, N·m; a margin is allowable / torque)."""
+    lines = []
+    for d in drivetrains:
+        n = d.numbers
+        if "stages" not in n:
+            lines.append(f"  drive train {d.name}: differential {n['differential']}: pitch up to "
+                         f"{n['max_pitch']:.3g} N·m, roll up to {n['max_roll']:.3g} N·m")
+            continue
+        lines.append(f"  drive train {d.name}: ratio {n['total_ratio']:.4g}, efficiency "
+                     f"{n['efficiency']:.3f}, output {n['output_torque']:.3g} N·m at "
+                     f"{n['output_speed']:.4g} rpm")
+        w = max(12, max(len(s["name"]) for s in n["stages"]))
+        lines.append(f"    {'stage':<{w}}  {'kind':<9}  {'rpm in':>8}  {'rpm out':>8}  "
+                     f"{'N·m in':>8}  {'N·m out':>8}  {'margin':>6}")
+        for s in n["stages"]:
+            m = "–" if s["margin"] is None else f"{s['margin']:.2f}"
+            lines.append(f"    {s['name']:<{w}}  {s['kind']:<9}  {s['speed_in']:>8.4g}  "
+                         f"{s['speed_out']:>8.4g}  {s['torque_in']:>8.4g}  "
+                         f"{s['torque_out']:>8.4g}  {m:>6}")
+    return lines
+
+
 def json_doc(result) -> dict:
     return {
         "ok": result.ok,
@@ -77,6 +100,9 @@ def json_doc(result) -> dict:
                         "kinematics": a.kinematics,
                         "status": "error" if any(f.severity == "error" for f in a.findings) else "ok"}
                        for a in result.assemblies],
+        "drivetrains": [{"name": d.name, **d.numbers,
+                         "status": "error" if any(f.severity == "error" for f in d.findings)
+                         else "ok"} for d in result.drivetrains],
         "findings": [f.as_dict() for f in result.findings],
     }
 
@@ -111,7 +137,7 @@ def run(args) -> int:
     from gen.check.drives import drive_table
 
     for line in mesh_table(result.pairs) + drive_table(result.drives) + \
-            assembly_lines(result.assemblies):
+            assembly_lines(result.assemblies) + drivetrain_lines(result.drivetrains):
         print(line)
     print_findings(result.findings, show_info=args.verbose)
     if args.report:

@@ -25,7 +25,9 @@ from gen.params.yamlio import Doc, InputError, load_file
 #: tooth-system keys a train gives once for all its parts
 TRAIN_SHARED = ("module", "pressure_angle", "helix_angle", "profile", "module_basis")
 #: top-level sections and who reads them
-SECTIONS = ("parts", "trains", "meshes", "assemblies", "drives", "fits")
+SECTIONS = ("parts", "trains", "meshes", "assemblies", "drives", "drivetrains", "fits")
+#: sections whose entries are mappings, given as a list or by name
+ENTRY_SECTIONS = ("meshes", "assemblies", "drives", "drivetrains")
 NAME_RE = re.compile(r"^[A-Za-z0-9][A-Za-z0-9_.-]{0,63}$")
 RESERVED = {"manifest", "report", "plate", "con", "prn", "aux", "nul"}
 
@@ -194,7 +196,7 @@ def _read_doc(doc: Doc, proj: RawProject):
                              line=doc.line("trains", tname))
         for name, body in parts.items():
             _add_part(proj, doc, name, body, ("trains", tname, "parts", name), tname, shared)
-    for section in ("meshes", "assemblies", "drives"):
+    for section in ENTRY_SECTIONS:
         if section not in data or data[section] is None:
             continue
         value = data[section]
@@ -202,7 +204,7 @@ def _read_doc(doc: Doc, proj: RawProject):
                  list(_mapping(value, doc, (section,), f"'{section}'").items()))
         for idx, entry in items:
             if isinstance(idx, str):
-                check_name(idx, doc, (section, idx), what=section[:-1])
+                check_name(idx, doc, (section, idx), what=section.rstrip("s"))
             entry = _mapping(entry, doc, (section, idx), f"{section} entry {idx}")
             proj.entries.setdefault(section, []).append(
                 RawEntry(section=section, index=idx, values=entry, file=doc.path,

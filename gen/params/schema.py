@@ -58,7 +58,8 @@ class Key:
 
 def key_items(key: Key) -> str:
     n = f"{key.count} " if key.count else ""
-    return n + {"float": "numbers", "int": "whole numbers", "str": "names"}[key.item]
+    return n + {"float": "numbers", "int": "whole numbers", "str": "names",
+                "map": "mappings", "list": "lists"}[key.item]
 
 
 class Where:
@@ -88,7 +89,8 @@ def check_value(key: Key, value, where: Where, path: str | None = None):
         return check_mapping(value, key.sub, where, prefix=name + ".")
     if k == "list":  # a list of numbers (each within lo … hi) or of names
         what = {"float": "numbers, e.g. [0, 0.1]", "int": "whole numbers, e.g. [20, 40]",
-                "str": "names, e.g. [a, b]"}[key.item]
+                "str": "names, e.g. [a, b]", "map": "mappings",
+                "list": "lists of names, e.g. [[a, b]]"}[key.item]
         if not isinstance(value, list) or not value:
             raise where.error(name, f"must be a list of {what}", value, key.range_text())
         if key.count is not None and len(value) != key.count:
@@ -97,7 +99,8 @@ def check_value(key: Key, value, where: Where, path: str | None = None):
         if key.max_count is not None and len(value) > key.max_count:
             raise where.error(name, f"must list at most {key.max_count} values", value,
                               key.range_text())
-        item = Key(key.name, key.item, None, lo=key.lo, hi=key.hi, unit=key.unit)
+        item = Key(key.name, key.item, None, lo=key.lo, hi=key.hi, unit=key.unit, sub=key.sub,
+                   item="str")
         out = [check_value(item, v, where, f"{name}[{i}]") for i, v in enumerate(value)]
         if key.ascending and any(b <= a for a, b in zip(out, out[1:])):
             raise where.error(name, "must be in ascending order without repeats", value,
