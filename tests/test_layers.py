@@ -23,8 +23,10 @@ ALLOWED = {
     "build": {"params", "geometry", "validate", "kinds", "assemblies", "triangles", "solid",
               "export", "check"},
     "cli": {"params", "geometry", "validate", "kinds", "assemblies", "triangles", "solid",
-            "export", "check", "build"},
+            "export", "check", "build", "api"},
 }
+#: top-level modules above the packages (the public Python API): may import any package
+TOP = {"api.py": set(ALLOWED) - {"cli"}}
 BASE = {"errors", "findings", "tolerances"}
 #: third-party library → the only places (package, or package/module.py) that may import it
 DECLARED = {
@@ -81,6 +83,13 @@ def test_heavy_libraries_only_where_declared():
             if top in DECLARED and pkg not in DECLARED[top] and f"{pkg}/{f}" not in DECLARED[top]:
                 bad.append(f"{pkg}/{f} imports {mod}")
     assert not bad, bad
+
+
+def test_api_sits_below_the_cli():
+    for f, allowed in TOP.items():
+        mods = {m.split(".")[1] for m in _imports(os.path.join(ROOT, "gen", f))
+                if m.startswith("gen.") and m.count(".") >= 1}
+        assert mods - BASE <= allowed, (f, mods - BASE - allowed)
 
 
 def test_base_modules_import_no_package():

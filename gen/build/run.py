@@ -45,8 +45,12 @@ class BuildResult:
 
 
 def build(result, out: str, formats, *, force: bool = False, jobs: int = 1,
-          progress: Progress | None = None, plate=(220.0, 220.0)) -> BuildResult:
-    """Export every model of a passing CheckResult into ``out``."""
+          progress: Progress | None = None, plate=(220.0, 220.0), executor: str = "local",
+          scheduler: str | None = None) -> BuildResult:
+    """Export every model of a passing CheckResult into ``out``.
+
+    ``executor`` "local" exports in this process (``jobs`` > 1: forked workers); "dask" sends
+    the parts to the Dask cluster at ``scheduler`` (None: a local two-worker cluster)."""
     t0 = time.perf_counter()
     os.makedirs(out, exist_ok=True)
     prev = {} if force else read_manifest(out)
@@ -64,7 +68,12 @@ def build(result, out: str, formats, *, force: bool = False, jobs: int = 1,
     progress = progress or Progress(len(models), enabled=False)
     for name in sorted(report.outcomes):
         progress.step(report.outcomes[name])
-    if jobs > 1 and len(todo) > 1:
+    if executor == "dask" and todo:
+        from gen.build.cluster import export_on_dask
+
+        for oc in export_on_dask(result, todo, out, formats, scheduler, progress):
+            report.outcomes[oc.name] = oc
+    elif jobs > 1 and len(todo) > 1:
         import multiprocessing as mp
 
         if "step" in formats:

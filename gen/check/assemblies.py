@@ -28,6 +28,7 @@ def check_assemblies(result) -> None:
                                            entry.label, "", scope="assembly"))
             continue
         result.models.update(models)
+        result.recipes.update({n: ("assembly", entry, n) for n in models})
         for m in models.values():
             result.findings += [replace(f, where=f.where or display_path(entry.file))
                                 for f in m.findings]

@@ -22,6 +22,9 @@ class CheckResult:
     drives: list = field(default_factory=list)      # per-belt-drive result dicts
     assemblies: list = field(default_factory=list)  # gen.assemblies.Assembly
     drivetrains: list = field(default_factory=list)  # gen.check.drivetrains.DrivetrainResult
+    #: name -> how to make the part again elsewhere (picklable): ("part", raw, fits) or
+    #: ("assembly", entry, name); used by cluster builds
+    recipes: dict = field(default_factory=dict)
 
     @property
     def ok(self) -> bool:
@@ -43,9 +46,13 @@ def _locate(f: Finding, raw) -> Finding:
 
 def check(paths) -> CheckResult:
     """Load, resolve and validate every part and mesh; never imports the CAD kernel."""
+    return check_project(load_project(paths))
+
+
+def check_project(project: RawProject) -> CheckResult:
+    """Resolve and validate every part, assembly, mesh, drive and drive train of a project."""
     from gen.params.fits import collect_fits
 
-    project = load_project(paths)
     result = CheckResult(project=project)
     try:
         fits = collect_fits(project.entries.get("fits", []))
@@ -60,6 +67,7 @@ def check(paths) -> CheckResult:
             continue
         model = model.with_(findings=tuple(_locate(f, raw) for f in model.findings))
         result.models[name] = model
+        result.recipes[name] = ("part", raw, fits)
         result.findings += model.findings
     from gen.check.assemblies import check_assemblies
     from gen.check.drives import check_drives

@@ -20,25 +20,26 @@ def register(sub):
     p.add_argument("--jobs", type=int, default=1, metavar="N",
                    help="export parts in N parallel processes (default: 1)")
     p.add_argument("--force", action="store_true", help="rebuild parts that are up to date")
+    p.add_argument("--executor", default="local", choices=("local", "dask"),
+                   help="where parts are exported: this machine (default) or a Dask cluster")
+    p.add_argument("--scheduler", metavar="ADDRESS", default=None,
+                   help="Dask scheduler address, e.g. tcp://10.0.0.5:8786 (default with "
+                        "--executor dask: a local two-worker cluster)")
     p.add_argument("--plate", default="220x220", metavar="WxD",
                    help="build plate for plate.3mf when 3mf is a format (mm, default 220x220)")
     p.set_defaults(func=run)
 
 
 def parse_formats(text: str):
-    from gen.export.registry import FORMATS
+    """Formats from a comma-separated list (see :func:`gen.export.registry.parse_formats`)."""
+    from gen.export.registry import parse_formats as parse
 
-    fmts = [f.strip().lower() for f in text.split(",") if f.strip()]
-    bad = [f for f in fmts if f not in FORMATS]
-    if bad or not fmts:
-        raise ValueError(f"unknown format '{bad[0] if bad else text}'; allowed: "
-                         + ", ".join(FORMATS))
-    return list(dict.fromkeys(fmts))
+    return parse(text)
 
 
 def run(args) -> int:
     from gen.build import Progress, build
-    from gen.check import check
+    from gen.api import check_files
 
     try:
         formats = parse_formats(args.format)
@@ -52,14 +53,15 @@ def run(args) -> int:
     except ValueError as exc:
         print(f"pitchline build: {exc}", file=sys.stderr)
         return 2
-    result = check(args.paths)
+    result = check_files(*args.paths)
     if not result.ok:
         print(f"not built: {result_summary(result)}")
         print_findings(result.findings)
         print("nothing was written", file=sys.stderr)
         return 1
     report = build(result, args.out, formats, force=args.force, jobs=args.jobs,
-                   progress=Progress(len(result.models)), plate=plate)
+                   progress=Progress(len(result.models)), plate=plate,
+                   executor=args.executor, scheduler=args.scheduler)
     plate_oc = report.plate
     if plate_oc is not None and not plate_oc.ok:
         print_findings(plate_oc.findings)

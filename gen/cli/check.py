@@ -124,9 +124,9 @@ def write_report(path: str, result) -> None:
 
 
 def run(args) -> int:
-    from gen.check import check
+    from gen.api import check_files
 
-    result = check(args.paths)
+    result = check_files(*args.paths)
     if args.report:
         write_report(args.report, result)
     if args.json:

@@ -32,3 +32,14 @@ DEFAULT_FORMATS = ("step", "stl")
 def writer(name: str):
     """The ``write_part`` function of format ``name``."""
     return importlib.import_module(f"gen.export.{FORMATS[name].module}").write_part
+
+
+def parse_formats(text: str) -> list[str]:
+    """Format names from a comma-separated list, in order, without repeats; ValueError names
+    the unknown one and the allowed ones."""
+    fmts = [f.strip().lower() for f in text.split(",") if f.strip()]
+    bad = [f for f in fmts if f not in FORMATS]
+    if bad or not fmts:
+        raise ValueError(f"unknown format '{bad[0] if bad else text}'; allowed: "
+                         + ", ".join(FORMATS))
+    return list(dict.fromkeys(fmts))

@@ -25,7 +25,8 @@ from gen.params.yamlio import Doc, InputError, load_file
 #: tooth-system keys a train gives once for all its parts
 TRAIN_SHARED = ("module", "pressure_angle", "helix_angle", "profile", "module_basis")
 #: top-level sections and who reads them
-SECTIONS = ("parts", "trains", "meshes", "assemblies", "drives", "drivetrains", "fits")
+SECTIONS = ("parts", "trains", "series", "meshes", "assemblies", "drives", "drivetrains",
+            "fits")
 #: sections whose entries are mappings, given as a list or by name
 ENTRY_SECTIONS = ("meshes", "assemblies", "drives", "drivetrains")
 NAME_RE = re.compile(r"^[A-Za-z0-9][A-Za-z0-9_.-]{0,63}$")
@@ -110,6 +111,16 @@ def check_name(name, doc: Doc, keys, what="part") -> str:
     return name
 
 
+def project_from_mapping(data: dict, name: str = "<python>") -> RawProject:
+    """A project from a mapping laid out like a parameter file (the Python API's input)."""
+    from gen.params.yamlio import Doc
+
+    proj = RawProject()
+    proj.files.append(name)
+    _read_doc(Doc(path=name, data=data, lines={}), proj)
+    return proj
+
+
 def load_project(paths) -> RawProject:
     proj = RawProject()
     for path in find_files(paths):
@@ -176,6 +187,14 @@ def _read_doc(doc: Doc, proj: RawProject):
                              file=doc.path, line=doc.line(key), allowed=", ".join(SECTIONS))
     for name, body in _mapping(data.get("parts") or {}, doc, ("parts",), "'parts'").items():
         _add_part(proj, doc, name, body, ("parts", name))
+    for sname, sbody in _mapping(data.get("series") or {}, doc, ("series",), "'series'").items():
+        from gen.params.series import expand
+
+        check_name(sname, doc, ("series", sname), what="series")
+        for name, body in expand(sname, sbody, doc.path,
+                                 lambda key: doc.line("series", sname, *(key.split(".")
+                                                                         if key else ()))):
+            _add_part(proj, doc, name, body, ("series", sname))
     for tname, tbody in _mapping(data.get("trains") or {}, doc, ("trains",), "'trains'").items():
         check_name(tname, doc, ("trains", tname), what="train")
         tbody = _mapping(tbody, doc, ("trains", tname), f"train '{tname}'")
