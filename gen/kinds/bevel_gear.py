@@ -17,6 +17,8 @@ from gen.kinds.base import BevelMate, Formula, Part, Role
 from gen.geometry.body import ApexBody
 from gen.validate import measure
 from gen.validate.bevel_checks import bevel_findings
+from gen.validate.bevel_measure import bevel_size_findings, slice_plan
+from gen.tolerances import TOL
 from gen.findings import ERROR, Finding
 
 KIND = "bevel_gear"
@@ -80,17 +82,26 @@ def bevel_model(name, kind, values, sizes, flank) -> Part:
                 "pressure_angle": math.degrees(sizes.alpha), "pitch_diameter": sizes.de,
                 "tip_diameter": sizes.dae, "root_diameter": sizes.dfe,
                 "bore": bore, **sizes.manifest()}
-    # slice through the middle of the face, on the pitch cone
-    R_mid = sizes.Re - sizes.b / 2.0
-    z_mid = sizes.mounting_distance - R_mid * math.cos(sizes.delta)
+    # ISO 23509 sizes measured on the large-end outline, and the plane section that the
+    # slice of the exported triangles will show (the same plane and circle as slice_check)
+    slice_tol = chord + TOL.slice_extra
+    findings += bevel_size_findings(sizes, flank, name, chord, slice_tol)
+    plan = slice_plan(sizes, flank)
 
     def slice_check(slicer):
-        out = []
-        outer = max(slicer(z_mid), key=len)
-        if measure.tooth_count(outer) != sizes.z:
-            out.append(Finding(ERROR, "tooth-count", f"mesh slice z={z_mid:.3f}: counted "
-                               f"{measure.tooth_count(outer)} teeth, expected {sizes.z}", name, ""))
-        return out
+        if plan is None:
+            return []     # already refused by bevel_size_findings
+        polys = slicer(plan.z)
+        if not polys:
+            return [Finding(ERROR, "tooth-count", f"mesh slice z={plan.z:.3f}: no section",
+                            name, "", key="face_width")]
+        # above the front face the teeth stand as islands: count over every polygon
+        n = sum(measure.tooth_count(q, plan.r_count) for q in polys)
+        if n != sizes.z:
+            return [Finding(ERROR, "tooth-count", f"mesh slice z={plan.z:.3f}: counted {n} "
+                            f"teeth on r = {plan.r_count:.3f} mm, expected {sizes.z}", name,
+                            "plane section of the tooth band", key="face_width")]
+        return []
 
     return Part(name=name, kind=kind, role=Role.BEVEL_GEAR, values=values,
                 shape=ApexBody(sizes, flank, bore), sizes=manifest, findings=tuple(findings),
