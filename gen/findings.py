@@ -87,6 +87,11 @@ CODES = {
     "loose-mesh": "placed bevel gears stand apart",
     "apex-offset": "a bevel gear's apex is off the common apex",
     "kinematics": "the kinematic relations of an assembly",
+    # issue 11: honest checks
+    "backlash-high": "the backlash exceeds its maximum: the teeth rattle",
+    "rated-at-rest": "a mesh torque was rated without a speed (0 rpm)",
+    "below-min-wall": "a wall or rim is thinner than two printed lines",
+    "bevel-rating": "Lewis rating of a bevel gear on its virtual spur gear",
     # fit coupon
     "coupon-steps": "what the coupon holds",
     "coupon-reading": "how to read the coupon",

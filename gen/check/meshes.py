@@ -11,7 +11,7 @@ import math
 from dataclasses import replace
 
 from gen.errors import GeometryError, ParamError
-from gen.findings import ERROR, INFO, Finding
+from gen.findings import ERROR, INFO, WARNING, Finding
 from gen.geometry.pair import mesh_pair, mesh_rack
 from gen.kinds.base import Role
 from gen.params.project import display_path
@@ -28,6 +28,9 @@ MESH_KEYS = (
         doc="as mounted (default: the zero-backlash working distance)"),
     Key("print_clearance", "float", None, lo=0, hi=5, unit="mm",
         doc="clearance each printed flank needs from its mate"),
+    Key("max_backlash", "float", None, lo=0, hi=50, unit="mm",
+        doc="largest normal backlash before the pair is said to rattle (default: two print "
+            "clearances + 2 × ISO/TR 10064-2 j_bn,min)"),
     Key("torque", "float", None, lo=0, hi=1e6, lo_open=True, unit="N·m",
         doc="torque on the part named first (Lewis bending estimate)"),
     Key("speed", "float", None, lo=0, hi=1e6, unit="rpm", doc="speed of the part named first"),
@@ -92,9 +95,10 @@ def check_cylindrical_pair(label, names, a, b, v):
             sw = sweep_pair(a.outline, b.outline, pr)
     except GeometryError as exc:
         return [Finding(ERROR, "no-mesh", str(exc), label, "", key="center_distance")], {}, None
-    found = pair_findings(pr, sw, subject=label, print_clearance=clearance)
+    found = pair_findings(pr, sw, subject=label, print_clearance=clearance,
+                          max_backlash=v["max_backlash"])
     if v["torque"] is not None:
-        found += strength_of_pair(label, names, a, b, v)
+        found += rated_at_rest(label, v) + strength_of_pair(label, names, a, b, v)
     return found, pair_numbers(pr, sw), (a.outline, b.outline, pr, sw,
                                         tb.sizes if rack else None)
 
@@ -153,8 +157,19 @@ def check_bevel_pair(label, names, a, b, v):
                              f"({2 * clearance:.3f} mm): thin the teeth (backlash_allowance)",
                              label, src, key="print_clearance"))
     if v["torque"] is not None:
-        found += bevel_strength(label, names, a, b, v)
+        found += rated_at_rest(label, v) + bevel_strength(label, names, a, b, v)
     return found, numbers, None
+
+
+def rated_at_rest(label, v) -> list:
+    """A warning when a torque is declared without a speed: the Lewis estimate then uses the
+    0 rpm velocity factor (no dynamic load), the most lenient case."""
+    if v["speed"] is not None:
+        return []
+    return [Finding(WARNING, "rated-at-rest", f"torque {v['torque']:g} N·m is rated at 0 rpm "
+                    "(no speed given): the velocity factor of a running pair is left out; "
+                    "give speed (rpm of the part named first)", label,
+                    "Lewis with the Barth velocity factor", key="speed")]
 
 
 def bevel_strength(label, names, a, b, v) -> list:
