@@ -97,9 +97,20 @@ def check_cylindrical_pair(label, names, a, b, v):
         return [Finding(ERROR, "no-mesh", str(exc), label, "", key="center_distance")], {}, None
     found = pair_findings(pr, sw, subject=label, print_clearance=clearance,
                           max_backlash=v["max_backlash"])
+    applied = {m.name: float(m.sizes.get("tip_shortening", 0.0)) for m in (a, b)
+               if m.role is Role.EXTERNAL_GEAR}
+    if not rack:
+        said = ", ".join(f"{n} {k:.4f}" for n, k in applied.items())
+        hint = ("" if all(k >= pr.k - 1e-4 for k in applied.values()) else
+                "; tip_shortening: auto applies it")
+        found.append(Finding(INFO, "mesh-geometry", f"tip shortening k = x1 + x2 − y = "
+                             f"{pr.k:.4f} for this pair; applied to the tips: {said}{hint}",
+                             label, "ISO 21771", key="parts"))
     if v["torque"] is not None:
         found += rated_at_rest(label, v) + strength_of_pair(label, names, a, b, v)
-    return found, pair_numbers(pr, sw), (a.outline, b.outline, pr, sw,
+    numbers = pair_numbers(pr, sw)
+    numbers["tip_shortening_applied"] = applied
+    return found, numbers, (a.outline, b.outline, pr, sw,
                                         tb.sizes if rack else None)
 
 

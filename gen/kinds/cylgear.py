@@ -48,6 +48,9 @@ def make_gear(name: str, values: dict, where, *, kind: str, beta: float = 0.0,
     rack = basic_rack(values["profile"]).with_alpha(values["pressure_angle"])
     m, z, b = values["module"], values["teeth"], values["face_width"]
     fit = K.fit_of(values)
+    if values["tip_shortening"] == "auto":
+        # resolved per declared mesh by gen.check.project; alone the part keeps its full tips
+        values = dict(values, tip_shortening=0.0)
     # the fit thins every flank and pulls the tip in; the formulas below include both, so
     # the measured profile is checked against the compensated sizes
     sizes = gear_sizes(z, m, rack, x=values["profile_shift"], beta=beta,
@@ -194,6 +197,7 @@ def _part(name, kind, values, body, sizes, findings, poly, flank, beta, rack, *,
         "root_diameter": sizes.df,
         "base_diameter": sizes.db,
         "tooth_thickness": sizes.s,
+        "tip_shortening": values["tip_shortening"],   # k applied to the tip diameter
     }
     fit = K.fit_of(values)
     if fit["name"] != "none":
