@@ -72,10 +72,22 @@ def bevel_model(name, kind, values, sizes, flank) -> Part:
         bore += K.fit_of(values)["hole_allowance"]
     from gen.geometry.bevel import blank_profile
 
+    rim = None
     try:
-        blank_profile(sizes, bore / 2.0)
+        blank = blank_profile(sizes, bore / 2.0)
+        if bore:   # least wall between the bore and the small-end root land
+            rim = float(min(blank[-2, 0], blank[1, 0])) - bore / 2.0
     except GeometryError as exc:
         findings.append(Finding(ERROR, "bore-too-big", str(exc), name, "geometry", key="bore"))
+    # printability at the small end, where the teeth are thinnest (sections scale by Ri/Re)
+    from gen.validate.bevel_checks import small_end_tip_land
+    from gen.validate.printability import print_limits, printability_findings
+
+    k = sizes.small_end_scale
+    s_small = (sizes.module * (math.pi / 2 + 2 * sizes.x * math.tan(sizes.alpha))
+               - sizes.thinning) * k
+    findings += printability_findings(name, print_limits(K.fit_of(values)), tooth=s_small,
+                                      tip_land=small_end_tip_land(sizes, flank), rim=rim)
     chord = values["chord_tolerance"]
     manifest = {"module": sizes.module, "teeth": sizes.z, "mating_teeth": sizes.mating_z,
                 "shaft_angle": math.degrees(sizes.shaft_angle),

@@ -126,21 +126,13 @@ def make_gear(name: str, values: dict, where, *, kind: str, beta: float = 0.0,
 
 
 def min_feature_findings(name, fit, flank, sizes, bore_r) -> list:
-    """Tip lands and rims thinner than the fit profile's smallest printable feature."""
-    out = []
-    mf = fit["min_feature"]
-    if not mf:
-        return out
+    """Teeth, tip lands and rims against the printer's line width (the fit profile's, or the
+    default nozzle's): :mod:`gen.validate.printability`."""
+    from gen.validate.printability import print_limits, printability_findings
+
     tip = 2.0 * flank.r_tip * float(flank.psi[-1])
-    if 0 < tip < mf:
-        out.append(Finding(WARNING, "below-min-feature", f"tip land {tip:.2f} mm is under the "
-                           f"{mf:g} mm smallest feature of fit '{fit['name']}'", name,
-                           "fit profile", key="fit"))
-    if bore_r is not None and 0 < sizes.rf - bore_r < mf:
-        out.append(Finding(WARNING, "below-min-feature", f"rim {sizes.rf - bore_r:.2f} mm is "
-                           f"under the {mf:g} mm smallest feature of fit '{fit['name']}'", name,
-                           "fit profile", key="fit"))
-    return out
+    rim = sizes.rf - bore_r if bore_r is not None else None
+    return printability_findings(name, print_limits(fit), tooth=sizes.s, tip_land=tip, rim=rim)
 
 
 def gear_rating(name, values, sizes, rack) -> dict:
