@@ -161,6 +161,7 @@ def check_bevel_pair(label, names, a, b, v):
         found.append(Finding(ERROR, "contact-ratio-low", f"virtual contact ratio "
                              f"{pr.contact_ratio:.3f} < {LIMITS.min_contact_ratio:g}", label,
                              "common practice"))
+    found += bevel_sweep(label, a, b, pr, numbers, v)
     clearance = v["print_clearance"]
     if clearance is not None and pr.backlash_normal < 2.0 * clearance - 1e-9:
         found.append(Finding(ERROR, "backlash-low", f"virtual-pair normal backlash "
@@ -170,6 +171,41 @@ def check_bevel_pair(label, names, a, b, v):
     if v["torque"] is not None:
         found += rated_at_rest(label, v) + bevel_strength(label, names, a, b, v)
     return found, numbers, None
+
+
+def bevel_sweep(label, a, b, pr, numbers, v) -> list:
+    """Sweep the Tredgold virtual (back-cone) outlines of a bevel pair through one pitch, as a
+    cylindrical pair is swept: overlap is an error, the least clearances are reported, and a
+    virtual normal backlash above the maximum rattles."""
+    from gen.validate.bevel_measure import virtual_outline
+    from gen.validate.pair_checks import PAIR_LIMITS, max_normal_backlash
+    from gen.validate.sweep import INTERFERING
+
+    src = "swept Tredgold virtual outlines (large end)"
+    sa, sb = a.mate.sizes, b.mate.sizes
+    try:
+        sw = sweep_pair(virtual_outline(a.mate.flank, sa.zv, a.chord_tol),
+                        virtual_outline(b.mate.flank, sb.zv, b.chord_tol), pr)
+    except (GeometryError, ValueError) as exc:
+        return [Finding(ERROR, "no-mesh", f"virtual pair: {exc}", label, src, key="parts")]
+    numbers.update(min_clearance_drive=sw.min_clearance_drive,
+                   min_clearance_coast=sw.min_clearance_coast, overlap_area=sw.overlap_area,
+                   swept_backlash=sw.swept_backlash)
+    if sw.status == INTERFERING:
+        return [Finding(ERROR, "teeth-interfere", f"virtual (back-cone) outlines overlap in mesh "
+                        f"(up to {sw.overlap_area:.4f} mm²)", label, src, key="profile_shift")]
+    out = [Finding(INFO, "mesh-sweep", f"virtual pair swept {sw.steps} steps: least clearance "
+                   f"drive {sw.min_clearance_drive:.4f} mm, coast {sw.min_clearance_coast:.4f} "
+                   f"mm; swept backlash {sw.swept_backlash:.4f} mm vs formula "
+                   f"{sw.formula_backlash:.4f} mm", label, src)]
+    clear = PAIR_LIMITS.print_clearance if v["print_clearance"] is None else v["print_clearance"]
+    jmax = v["max_backlash"] if v["max_backlash"] is not None else max_normal_backlash(pr, clear)
+    if pr.backlash_normal > jmax + 1e-9:
+        out.append(Finding(WARNING, "backlash-high", f"the teeth will rattle: virtual-pair normal "
+                           f"backlash {pr.backlash_normal:.3f} mm exceeds {jmax:.3f} mm: thin the "
+                           "teeth less (backlash_allowance)", label, "ISO/TR 10064-2",
+                           key="backlash_allowance"))
+    return out
 
 
 def rated_at_rest(label, v) -> list:
@@ -184,23 +220,16 @@ def rated_at_rest(label, v) -> list:
 
 
 def bevel_strength(label, names, a, b, v) -> list:
-    """Lewis estimate of both bevel gears: tangential force at the mean pitch radius
-    r_m = (d_e/2)(1 − b/(2 R_e)), mean module m_m = m (1 − b/(2 R_e)), Y of the Tredgold virtual
-    spur gear of z/cos δ teeth (Shigley, Mechanical Engineering Design, bevel gears: the usual
-    approximation, from memory)."""
-    from gen.geometry.cylindrical import gear_sizes
-    from gen.geometry.lewis import lewis_gear
-    from gen.validate.strength import LoadedGear, strength_findings
+    """Lewis estimate of both bevel gears under the declared torque and speed of the part
+    named first (:func:`gen.kinds.bevel_gear.bevel_loaded_gear`: mean section, Y of the
+    Tredgold virtual spur gear); the mate carries T·z2/z1 at n·z1/z2."""
+    from gen.validate.strength import strength_findings
 
     first = a if a.name == names[0] else b
     out = []
     for m in (a, b):
         s = m.mate.sizes
-        shrink = 1.0 - s.b / (2.0 * s.Re)
-        virtual = gear_sizes(s.zv, s.module, s.rack, x=s.x, thinning=s.thinning)
-        gear = LoadedGear(name=m.name, module=s.module * shrink, face_width=s.b,
-                          form_factor=lewis_gear(virtual, s.rack).form_factor,
-                          pitch_diameter=s.de * shrink, teeth=s.z)
+        gear = m.rating()["loaded"]
         ratio = 1.0 if m is first else s.z / first.mate.sizes.z
         out += [replace(f, message=f"{m.name}: {f.message}") for f in
                 strength_findings(gear, v["material"] or m.values["material"],

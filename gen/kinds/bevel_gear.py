@@ -6,6 +6,7 @@ z = mounting distance. See :mod:`gen.geometry.bevel` for the conventions.
 
 from __future__ import annotations
 
+import functools
 import math
 
 from gen.errors import GeometryError
@@ -34,7 +35,7 @@ COMMON = (
     Key("face_width", "float", REQUIRED, lo=0, hi=2000, lo_open=True, unit="mm",
         doc="along the pitch-cone generator; at most min(Re/3, 10 m)"),
     Key("profile_shift", "float", 0.0, lo=-0.6, hi=0.6, doc="x; the mating gear takes −x"),
-    K.BACKLASH_ALLOWANCE, BORE, K.MATERIAL, K.FIT,
+    K.BACKLASH_ALLOWANCE, BORE, K.MATERIAL, K.SAFETY_FACTOR, K.RATING_SPEED, K.FIT,
     Key("mounting_distance", "float", None, lo=0, hi=5000, lo_open=True, unit="mm",
         doc="cone apex to back face (default: derived from the blank)"),
     K.FORCE, K.CHORD,
@@ -115,10 +116,40 @@ def bevel_model(name, kind, values, sizes, flank) -> Part:
                             "plane section of the tooth band", key="face_width")]
         return []
 
-    return Part(name=name, kind=kind, role=Role.BEVEL_GEAR, values=values,
+    rating = functools.lru_cache(maxsize=1)(lambda: bevel_rating(name, values, sizes))
+    return Part(name=name, kind=kind, role=Role.BEVEL_GEAR, values=values, rating=rating,
                 shape=ApexBody(sizes, flank, bore), sizes=manifest, findings=tuple(findings),
                 formulas=BEVEL_FORMULAS, mate=BevelMate(sizes, flank),
                 slice_checks=(slice_check,), chord_tol=chord)
+
+
+def bevel_loaded_gear(sizes, name: str = ""):
+    """The Lewis load model of a straight bevel gear: tangential force at the mean pitch
+    radius r_m = (d_e/2)(1 − b/(2 R_e)), mean module m_m = m (1 − b/(2 R_e)), face width b,
+    Y measured on the Tredgold virtual spur gear of z_v = z/cos δ teeth (Shigley, Mechanical
+    Engineering Design, bevel gears: the usual approximation, from memory)."""
+    from gen.geometry.cylindrical import gear_sizes
+    from gen.geometry.lewis import lewis_gear
+    from gen.validate.strength import LoadedGear
+
+    shrink = 1.0 - sizes.b / (2.0 * sizes.Re)
+    virtual = gear_sizes(sizes.zv, sizes.module, sizes.rack, x=sizes.x, thinning=sizes.thinning)
+    return LoadedGear(name=name, module=sizes.module * shrink, face_width=sizes.b,
+                      form_factor=lewis_gear(virtual, sizes.rack).form_factor,
+                      pitch_diameter=sizes.de * shrink, teeth=sizes.z)
+
+
+def bevel_rating(name, values, sizes) -> dict:
+    """Lewis form factor (virtual gear) and the rated torque (N·m) of a bevel gear."""
+    from gen.validate.strength import rated_torque
+
+    gear = bevel_loaded_gear(sizes, name)
+    safety, rpm = values.get("safety_factor", 2.0), values.get("rpm", 60.0)
+    return {"lewis_form_factor": gear.form_factor,
+            "rated_torque": rated_torque(gear, values["material"], safety, rpm),
+            "material": values["material"], "safety_factor": safety, "rpm": rpm,
+            "basis": "Lewis at the mean section, Y of the Tredgold virtual spur gear",
+            "loaded": gear}
 
 
 def make(name, values, where):

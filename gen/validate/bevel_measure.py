@@ -152,3 +152,39 @@ def bevel_size_findings(sizes: BevelSizes, flank: Flank, subject: str, chord: fl
                            f"teeth on r = {plan.r_count:.3f} mm, expected {sizes.z}", subject,
                            "plane section of the tooth band", key="face_width"))
     return out
+
+
+def virtual_outline(flank: Flank, zv: float, chord: float = 0.01) -> np.ndarray:
+    """(n, 2) outline of the Tredgold virtual spur gear (development of the back cone), tooth 0
+    on +X, for sweeping a bevel pair.
+
+    z_v = z / cos δ is seldom whole, so the development is not a closed gear: the teeth are
+    laid at the virtual pitch 2π/z_v on both sides of +X as far as whole teeth go, and the
+    outline closes over the root circle on the far side (−X), away from the mesh zone the
+    sweep looks at (:func:`gen.validate.sweep.sweep_pair` cuts each outline to the lens
+    where the tip circles overlap, plus half a pitch).
+    """
+    r, psi = flank.r, flank.psi
+    pitch = 2.0 * math.pi / zv
+    n_side = int(zv // 2) - 1
+    if n_side < 1:
+        raise ValueError(f"virtual gear of {zv:.2f} teeth is too small to sweep")
+
+    def arc(radius, a0, a1):
+        step = 2.0 * math.acos(max(-1.0, 1.0 - chord / radius)) if radius > chord else 0.5
+        n = max(2, int(math.ceil(abs(a1 - a0) / step)) + 1)
+        a = np.linspace(a0, a1, n)
+        return np.column_stack([radius * np.cos(a), radius * np.sin(a)])
+
+    def polar(rr, aa):
+        return np.column_stack([rr * np.cos(aa), rr * np.sin(aa)])
+
+    parts = []
+    for k in range(-n_side, n_side + 1):
+        c = k * pitch
+        parts.append(polar(r, c - psi))
+        parts.append(arc(flank.r_tip, c - psi[-1], c + psi[-1])[1:-1])
+        parts.append(polar(r[::-1], c + psi[::-1]))
+        end = c + pitch - psi[0] if k < n_side else 2.0 * math.pi - n_side * pitch - psi[0]
+        parts.append(arc(flank.r_root, c + psi[0], end)[1:-1])
+    return np.concatenate(parts, axis=0)
