@@ -98,6 +98,10 @@ CODES = {
     "stage-overload": "a stage carries more than its allowable torque",
     "stage-stall-overload": "a stage carries more than its allowable torque at motor stall",
     "chain-summary": "ratio, efficiency, output and weakest stage of a drive train",
+    # issue 11: honest checks
+    "backlash-high": "the backlash exceeds its maximum: the teeth rattle",
+    "rated-at-rest": "a mesh torque was rated without a speed (0 rpm)",
+    "below-min-wall": "a wall or rim is thinner than two printed lines",
     # fit coupon
     "coupon-steps": "what the coupon holds",
     "coupon-reading": "how to read the coupon",

@@ -32,6 +32,14 @@ class Limits:
 
     #: least transverse contact ratio of a pair (common practice)
     min_contact_ratio: float = 1.1
+    #: largest normal backlash of a mesh = 2 print clearances + this × ISO/TR 10064-2 j_bn,min
+    #: (basis ISO/TR 10064-2; the multiple is this project's choice; ``max_backlash`` in a
+    #: mesh overrides it)
+    max_backlash_iso_multiple: float = 2.0
+    #: nozzle assumed for the printability checks when a part names no fit (mm; common
+    #: practice for FDM printers), and lines per load-bearing wall (common practice)
+    default_nozzle: float = 0.4
+    wall_lines: int = 2
 
 
 TOL = Tolerances()

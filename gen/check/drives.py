@@ -96,7 +96,8 @@ def check_drives(result) -> None:
             result.findings.append(_err(where, key, str(exc)))
             continue
         rel = display_path(entry.file)
-        found = [replace(f, subject=entry.label, where=f"{rel}:{entry.line(None)}", scope="drive")
+        found = [replace(f, subject=entry.label, where=f"{rel}:{entry.line(f.key or None)}",
+                         scope="drive")
                  for f in sol.findings]
         result.findings += found
         result.drives.append({"name": entry.label, "solution": sol, "findings": found,

@@ -11,7 +11,7 @@ import math
 from dataclasses import replace
 
 from gen.errors import GeometryError, ParamError
-from gen.findings import ERROR, INFO, Finding
+from gen.findings import ERROR, INFO, WARNING, Finding
 from gen.geometry.pair import mesh_pair, mesh_rack
 from gen.kinds.base import Role
 from gen.params.project import display_path
@@ -28,6 +28,9 @@ MESH_KEYS = (
         doc="as mounted (default: the zero-backlash working distance)"),
     Key("print_clearance", "float", None, lo=0, hi=5, unit="mm",
         doc="clearance each printed flank needs from its mate"),
+    Key("max_backlash", "float", None, lo=0, hi=50, unit="mm",
+        doc="largest normal backlash before the pair is said to rattle (default: two print "
+            "clearances + 2 × ISO/TR 10064-2 j_bn,min)"),
     Key("torque", "float", None, lo=0, hi=1e6, lo_open=True, unit="N·m",
         doc="torque on the part named first (Lewis bending estimate)"),
     Key("speed", "float", None, lo=0, hi=1e6, unit="rpm", doc="speed of the part named first"),
@@ -92,10 +95,22 @@ def check_cylindrical_pair(label, names, a, b, v):
             sw = sweep_pair(a.outline, b.outline, pr)
     except GeometryError as exc:
         return [Finding(ERROR, "no-mesh", str(exc), label, "", key="center_distance")], {}, None
-    found = pair_findings(pr, sw, subject=label, print_clearance=clearance)
+    found = pair_findings(pr, sw, subject=label, print_clearance=clearance,
+                          max_backlash=v["max_backlash"])
+    applied = {m.name: float(m.sizes.get("tip_shortening", 0.0)) for m in (a, b)
+               if m.role is Role.EXTERNAL_GEAR}
+    if not rack:
+        said = ", ".join(f"{n} {k:.4f}" for n, k in applied.items())
+        hint = ("" if all(k >= pr.k - 1e-4 for k in applied.values()) else
+                "; tip_shortening: auto applies it")
+        found.append(Finding(INFO, "mesh-geometry", f"tip shortening k = x1 + x2 − y = "
+                             f"{pr.k:.4f} for this pair; applied to the tips: {said}{hint}",
+                             label, "ISO 21771", key="parts"))
     if v["torque"] is not None:
-        found += strength_of_pair(label, names, a, b, v)
-    return found, pair_numbers(pr, sw), (a.outline, b.outline, pr, sw,
+        found += rated_at_rest(label, v) + strength_of_pair(label, names, a, b, v)
+    numbers = pair_numbers(pr, sw)
+    numbers["tip_shortening_applied"] = applied
+    return found, numbers, (a.outline, b.outline, pr, sw,
                                         tb.sizes if rack else None)
 
 
@@ -146,6 +161,7 @@ def check_bevel_pair(label, names, a, b, v):
         found.append(Finding(ERROR, "contact-ratio-low", f"virtual contact ratio "
                              f"{pr.contact_ratio:.3f} < {LIMITS.min_contact_ratio:g}", label,
                              "common practice"))
+    found += bevel_sweep(label, a, b, pr, numbers, v)
     clearance = v["print_clearance"]
     if clearance is not None and pr.backlash_normal < 2.0 * clearance - 1e-9:
         found.append(Finding(ERROR, "backlash-low", f"virtual-pair normal backlash "
@@ -153,28 +169,67 @@ def check_bevel_pair(label, names, a, b, v):
                              f"({2 * clearance:.3f} mm): thin the teeth (backlash_allowance)",
                              label, src, key="print_clearance"))
     if v["torque"] is not None:
-        found += bevel_strength(label, names, a, b, v)
+        found += rated_at_rest(label, v) + bevel_strength(label, names, a, b, v)
     return found, numbers, None
 
 
+def bevel_sweep(label, a, b, pr, numbers, v) -> list:
+    """Sweep the Tredgold virtual (back-cone) outlines of a bevel pair through one pitch, as a
+    cylindrical pair is swept: overlap is an error, the least clearances are reported, and a
+    virtual normal backlash above the maximum rattles."""
+    from gen.validate.bevel_measure import virtual_outline
+    from gen.validate.pair_checks import PAIR_LIMITS, max_normal_backlash
+    from gen.validate.sweep import INTERFERING
+
+    src = "swept Tredgold virtual outlines (large end)"
+    sa, sb = a.mate.sizes, b.mate.sizes
+    try:
+        sw = sweep_pair(virtual_outline(a.mate.flank, sa.zv, a.chord_tol),
+                        virtual_outline(b.mate.flank, sb.zv, b.chord_tol), pr)
+    except (GeometryError, ValueError) as exc:
+        return [Finding(ERROR, "no-mesh", f"virtual pair: {exc}", label, src, key="parts")]
+    numbers.update(min_clearance_drive=sw.min_clearance_drive,
+                   min_clearance_coast=sw.min_clearance_coast, overlap_area=sw.overlap_area,
+                   swept_backlash=sw.swept_backlash)
+    if sw.status == INTERFERING:
+        return [Finding(ERROR, "teeth-interfere", f"virtual (back-cone) outlines overlap in mesh "
+                        f"(up to {sw.overlap_area:.4f} mm²)", label, src, key="profile_shift")]
+    out = [Finding(INFO, "mesh-sweep", f"virtual pair swept {sw.steps} steps: least clearance "
+                   f"drive {sw.min_clearance_drive:.4f} mm, coast {sw.min_clearance_coast:.4f} "
+                   f"mm; swept backlash {sw.swept_backlash:.4f} mm vs formula "
+                   f"{sw.formula_backlash:.4f} mm", label, src)]
+    clear = PAIR_LIMITS.print_clearance if v["print_clearance"] is None else v["print_clearance"]
+    jmax = v["max_backlash"] if v["max_backlash"] is not None else max_normal_backlash(pr, clear)
+    if pr.backlash_normal > jmax + 1e-9:
+        out.append(Finding(WARNING, "backlash-high", f"the teeth will rattle: virtual-pair normal "
+                           f"backlash {pr.backlash_normal:.3f} mm exceeds {jmax:.3f} mm: thin the "
+                           "teeth less (backlash_allowance)", label, "ISO/TR 10064-2",
+                           key="backlash_allowance"))
+    return out
+
+
+def rated_at_rest(label, v) -> list:
+    """A warning when a torque is declared without a speed: the Lewis estimate then uses the
+    0 rpm velocity factor (no dynamic load), the most lenient case."""
+    if v["speed"] is not None:
+        return []
+    return [Finding(WARNING, "rated-at-rest", f"torque {v['torque']:g} N·m is rated at 0 rpm "
+                    "(no speed given): the velocity factor of a running pair is left out; "
+                    "give speed (rpm of the part named first)", label,
+                    "Lewis with the Barth velocity factor", key="speed")]
+
+
 def bevel_strength(label, names, a, b, v) -> list:
-    """Lewis estimate of both bevel gears: tangential force at the mean pitch radius
-    r_m = (d_e/2)(1 − b/(2 R_e)), mean module m_m = m (1 − b/(2 R_e)), Y of the Tredgold virtual
-    spur gear of z/cos δ teeth (Shigley, Mechanical Engineering Design, bevel gears: the usual
-    approximation, from memory)."""
-    from gen.geometry.cylindrical import gear_sizes
-    from gen.geometry.lewis import lewis_gear
-    from gen.validate.strength import LoadedGear, strength_findings
+    """Lewis estimate of both bevel gears under the declared torque and speed of the part
+    named first (:func:`gen.kinds.bevel_gear.bevel_loaded_gear`: mean section, Y of the
+    Tredgold virtual spur gear); the mate carries T·z2/z1 at n·z1/z2."""
+    from gen.validate.strength import strength_findings
 
     first = a if a.name == names[0] else b
     out = []
     for m in (a, b):
         s = m.mate.sizes
-        shrink = 1.0 - s.b / (2.0 * s.Re)
-        virtual = gear_sizes(s.zv, s.module, s.rack, x=s.x, thinning=s.thinning)
-        gear = LoadedGear(name=m.name, module=s.module * shrink, face_width=s.b,
-                          form_factor=lewis_gear(virtual, s.rack).form_factor,
-                          pitch_diameter=s.de * shrink, teeth=s.z)
+        gear = m.rating()["loaded"]
         ratio = 1.0 if m is first else s.z / first.mate.sizes.z
         out += [replace(f, message=f"{m.name}: {f.message}") for f in
                 strength_findings(gear, v["material"] or m.values["material"],

@@ -212,7 +212,8 @@ def solve_drive(profile, z1: int, z2: int, *, center: float | None = None,
     practice); error when a pulley has fewer teeth than its profile's recommended minimum
     (warning with ``force``); warning when ``belt_teeth`` is not in ``stock`` or the
     tensioner range is cut short by the pitch circles touching; info when the chosen belt
-    moves the center away from the requested one.
+    moves the center away from the requested one within the tensioner range, warning when the
+    requested center lies outside it (the belt cannot be tensioned at the mounted center).
 
     Raises
     ------
@@ -234,8 +235,8 @@ def solve_drive(profile, z1: int, z2: int, *, center: float | None = None,
     findings = []
     subject = f"{prof.name} drive {s1.teeth}/{s2.teeth}"
 
-    def add(sev, code, msg, source=""):
-        findings.append(Finding(sev, code, msg, subject, source))
+    def add(sev, code, msg, source="", key=""):
+        findings.append(Finding(sev, code, msg, subject, source, key=key))
 
     req_C = req_L = req_N = None
     if center is not None:
@@ -274,8 +275,18 @@ def solve_drive(profile, z1: int, z2: int, *, center: float | None = None,
             f"{mesh:.2f} teeth in mesh on the {z_small}-tooth pulley, fewer than "
             f"{MIN_TEETH_IN_MESH:g}", "common practice")
     if req_C is not None and abs(C - req_C) > CENTER_TOL:
-        add(INFO, "center-moved",
-            f"{n_belt}-tooth belt sets the center to {C:.3f} mm instead of {req_C:.3f} mm")
+        if c_lo - CENTER_TOL <= req_C <= c_hi + CENTER_TOL:
+            add(INFO, "center-moved",
+                f"{n_belt}-tooth belt sets the center to {C:.3f} mm instead of {req_C:.3f} mm "
+                f"(within the tensioner range {c_lo:.3f}…{c_hi:.3f} mm)")
+        else:
+            # the pulleys are mounted at req_C: a belt whose tensioner range misses it cannot
+            # be fitted and tensioned there
+            add(WARNING, "center-moved",
+                f"{n_belt}-tooth belt sets the center to {C:.3f} mm instead of {req_C:.3f} mm, "
+                f"outside its tensioner range {c_lo:.3f}…{c_hi:.3f} mm (±{pct:g} % of the belt "
+                f"length): choose another belt, widen adjust, or move the center",
+                key="stock" if stock is not None else "center_distance")
 
     return DriveSolution(
         profile=prof.name, pitch=p, teeth=(s1.teeth, s2.teeth),

@@ -17,8 +17,9 @@ FACE_WIDTH = Key("face_width", "float", REQUIRED, lo=0, hi=2000, lo_open=True, u
 BACKLASH_ALLOWANCE = Key("backlash_allowance", "float", 0.0, lo=0, hi=5, unit="mm",
                          doc="tooth thinning: arc thickness removed on the reference circle, "
                              "both flanks together")
-TIP_SHORTENING = Key("tip_shortening", "float", 0.0, lo=0, hi=1,
-                     doc="tip shortening coefficient k (tip diameter reduced by 2 k m)")
+TIP_SHORTENING = Key("tip_shortening", "float", 0.0, lo=0, hi=1, choices=("auto",),
+                     doc="tip shortening coefficient k (tip diameter reduced by 2 k m), or "
+                         "auto: the k = x1 + x2 − y of the part's declared mesh (ISO 21771)")
 BORE = Key("bore", "map", None, scalar="diameter", sub=(
     Key("diameter", "float", REQUIRED, lo=0, hi=2000, lo_open=True, unit="mm"),
     Key("flat", "float", 0.0, lo=0, hi=1000, unit="mm", doc="D-flat depth"),

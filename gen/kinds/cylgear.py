@@ -22,7 +22,8 @@ from gen.kinds.base import Formula, GearMate, Part, Role
 from gen.kinds import common_keys as K
 from gen.findings import ERROR, WARNING, Finding
 from gen.tolerances import TOL
-from gen.validate.gear_checks import compare_sizes, gear_findings, measured_sizes
+from gen.validate.gear_checks import (compare_sizes, gear_findings, measured_sizes,
+                                      thickness_circle)
 
 GEAR_KEYS = (K.MODULE, K.TEETH, K.PRESSURE_ANGLE, K.PROFILE, K.PROFILE_SHIFT, K.FACE_WIDTH,
              K.BACKLASH_ALLOWANCE, K.TIP_SHORTENING, K.BORE, K.HUB, K.MATERIAL,
@@ -47,6 +48,9 @@ def make_gear(name: str, values: dict, where, *, kind: str, beta: float = 0.0,
     rack = basic_rack(values["profile"]).with_alpha(values["pressure_angle"])
     m, z, b = values["module"], values["teeth"], values["face_width"]
     fit = K.fit_of(values)
+    if values["tip_shortening"] == "auto":
+        # resolved per declared mesh by gen.check.project; alone the part keeps its full tips
+        values = dict(values, tip_shortening=0.0)
     # the fit thins every flank and pulls the tip in; the formulas below include both, so
     # the measured profile is checked against the compensated sizes
     sizes = gear_sizes(z, m, rack, x=values["profile_shift"], beta=beta,
@@ -75,10 +79,20 @@ def make_gear(name: str, values: dict, where, *, kind: str, beta: float = 0.0,
             raise where.error("bore", str(exc), values["bore"]) from None
     findings += gear_findings(name, sizes, cutter, flank, poly, force=values["force"],
                               addendum=rack.addendum, face_width=b, bore_radius=bore_r,
-                              rack_root=rack.root_radius * m)
+                              rack_root=rack.root_radius * m,
+                              slice_margin=values["chord_tolerance"] + TOL.slice_extra)
     findings += min_feature_findings(name, fit, flank, sizes, bore_r)
     if beta:
-        from gen.kinds.helical import gear_twist, twisted_gear_body
+        from gen.kinds.helical import gear_twist, helix_measure_radius, twisted_gear_body
+        from gen.validate.measure import tooth_count
+
+        # the helix is measured on slices of the triangles on this circle: it must cross
+        # every tooth of the outline (the check build will run, done here on the profile)
+        r_m = helix_measure_radius(sizes, flank.r_junction)
+        if tooth_count(poly, r_m) != z:
+            findings.append(Finding(ERROR, "helix", f"the circle r = {r_m:.3f} mm on which the "
+                                    f"helix is measured crosses {tooth_count(poly, r_m)} teeth, "
+                                    f"not {z}", name, "tan β = Δθ·r_p/Δz", key="profile_shift"))
 
         twist = gear_twist(beta, sizes.rp, hand)
         solids, extra = twisted_gear_body(Section(loop, holes), b, twist, chevron, groove,
@@ -106,26 +120,19 @@ def make_gear(name: str, values: dict, where, *, kind: str, beta: float = 0.0,
     if beta:
         from gen.kinds.helical import helix_slice_check
 
-        checks.append(helix_slice_check(name, sizes, twist, chevron, b, groove))
+        checks.append(helix_slice_check(name, sizes, twist, chevron, b, groove,
+                                        flank.r_junction))
     return part.with_(section=solids[0].section, slice_checks=tuple(checks))
 
 
 def min_feature_findings(name, fit, flank, sizes, bore_r) -> list:
-    """Tip lands and rims thinner than the fit profile's smallest printable feature."""
-    out = []
-    mf = fit["min_feature"]
-    if not mf:
-        return out
+    """Teeth, tip lands and rims against the printer's line width (the fit profile's, or the
+    default nozzle's): :mod:`gen.validate.printability`."""
+    from gen.validate.printability import print_limits, printability_findings
+
     tip = 2.0 * flank.r_tip * float(flank.psi[-1])
-    if 0 < tip < mf:
-        out.append(Finding(WARNING, "below-min-feature", f"tip land {tip:.2f} mm is under the "
-                           f"{mf:g} mm smallest feature of fit '{fit['name']}'", name,
-                           "fit profile", key="fit"))
-    if bore_r is not None and 0 < sizes.rf - bore_r < mf:
-        out.append(Finding(WARNING, "below-min-feature", f"rim {sizes.rf - bore_r:.2f} mm is "
-                           f"under the {mf:g} mm smallest feature of fit '{fit['name']}'", name,
-                           "fit profile", key="fit"))
-    return out
+    rim = sizes.rf - bore_r if bore_r is not None else None
+    return printability_findings(name, print_limits(fit), tooth=sizes.s, tip_land=tip, rim=rim)
 
 
 def gear_rating(name, values, sizes, rack) -> dict:
@@ -152,14 +159,19 @@ GEAR_FORMULAS = (
 def size_slice_check(name, sizes, flank, chord, z):
     """Measure the outer outline of a slice of the exported triangles at height ``z``."""
 
+    # the same circle the profile check measured on (gen.validate.gear_checks)
+    at = thickness_circle(sizes, flank.r_junction, chord + TOL.slice_extra)
+
     def check(slicer):
         polys = slicer(z)
+        if not polys:
+            return [Finding(ERROR, "size-mismatch", f"mesh slice z={z:g}: no section",
+                            name, "", key="face_width")]
         outer = max(polys, key=lambda p: abs(_area(p)))
-        got = measured_sizes(outer, sizes)
+        got = measured_sizes(outer, sizes, at[0])
         return compare_sizes(name, got, sizes, size_tol=chord + TOL.slice_extra,
                              thickness_tol=2 * chord + TOL.slice_extra,
-                             where=f"mesh slice z={z:g}",
-                             check_thickness=flank.r_junction <= sizes.rp <= sizes.ra)
+                             where=f"mesh slice z={z:g}", thickness_at=at)
 
     return check
 
@@ -177,6 +189,7 @@ def _part(name, kind, values, body, sizes, findings, poly, flank, beta, rack, *,
         "root_diameter": sizes.df,
         "base_diameter": sizes.db,
         "tooth_thickness": sizes.s,
+        "tip_shortening": values["tip_shortening"],   # k applied to the tip diameter
     }
     fit = K.fit_of(values)
     if fit["name"] != "none":

@@ -50,28 +50,44 @@ def twisted_gear_body(section: Section, face: float, twist: float, chevron: bool
             Prism(upper, h1 + groove, face, twist=-twist)), []
 
 
+def helix_measure_radius(sizes, r_form: float) -> float:
+    """Radius (mm) on which the helix checks find the teeth: the middle of the band from the
+    form (or root) circle to the tip circle, so it crosses every tooth whatever the shift."""
+    return 0.5 * (max(sizes.rf, r_form) + sizes.ra)
+
+
 def helix_slice_check(name, sizes, twist: float, chevron: bool, face: float,
-                      groove: float = 0.0):
+                      groove: float = 0.0, r_form: float = 0.0):
     """Measure the helix on slices of the exported mesh: the turn between two heights is
     Δz·tan β / r_p within 0.05°, and a herringbone's halves mirror about the mid-plane."""
+    from gen.errors import GeometryError
     from gen.validate.helix import check_gear_helix, check_herringbone_mirror
 
     beta_signed = math.copysign(sizes.beta, twist)
+    r_m = helix_measure_radius(sizes, r_form)
 
     def check(polys_at):
+        try:
+            return _check(polys_at)
+        except GeometryError as exc:
+            return [Finding(ERROR, "helix", f"mesh: {exc}", name, "tan β = Δθ·r_p/Δz",
+                            key="helix_angle")]
+
+    def _check(polys_at):
         out = []
         span = (face - groove) / 2.0 if chevron else face   # toothed height of one helix
         z_a, z_b = 0.1 * span, 0.9 * span
         pa = max(polys_at(z_a), key=len)
         pb = max(polys_at(z_b), key=len)
-        out += [Finding(f.severity, f.code, f.message, name, f.source)
-                for f in check_gear_helix(pa, pb, z_b - z_a, beta_signed, sizes.rp, subject=name)]
+        out += [Finding(f.severity, f.code, f.message, name, f.source, key=f.key)
+                for f in check_gear_helix(pa, pb, z_b - z_a, beta_signed, sizes.rp, subject=name,
+                                          r_measure=r_m)]
         if chevron:
             zm = face / 2.0
             pairs = [(max(polys_at(zm - t), key=len), max(polys_at(zm + t), key=len))
                      for t in (groove / 2.0 + 0.2 * span, groove / 2.0 + 0.8 * span)]
-            out += [Finding(f.severity, f.code, f.message, name, f.source)
-                    for f in check_herringbone_mirror(pairs, sizes.rp, subject=name)]
+            out += [Finding(f.severity, f.code, f.message, name, f.source, key=f.key)
+                    for f in check_herringbone_mirror(pairs, r_m, subject=name)]
         return out
 
     return check
@@ -90,7 +106,7 @@ def rack_helix_check(name, pitch: float, shear: float, chevron: bool, face: floa
         if abs(got - want) > 1e-3 * pitch:
             return [Finding(ERROR, "helix", f"mesh: tooth traces shift {got:.4f} mm over "
                             f"{z_b - z_a:.3f} mm, expected {want:.4f} mm", name,
-                            "tan β = Δx/Δz")]
+                            "tan β = Δx/Δz", key="helix_angle")]
         return []
 
     return check

@@ -120,7 +120,9 @@ def check_value(key: Key, value, where: Where, path: str | None = None):
                                   None, key.range_text())
             return low[value.lower()]
         return value
-    # numbers
+    # numbers (a number key may also take the words listed in its choices, e.g. "auto")
+    if isinstance(value, str) and value.lower() in key.choices:
+        return value.lower()
     if isinstance(value, bool) or not isinstance(value, (int, float)):
         want = "a whole number" if k == "int" else "a number"
         raise where.error(name, f"must be {want}", value, key.range_text())

@@ -29,10 +29,31 @@ def undercut_depth(sizes: GearSizes, cutter: Cutter) -> float:
     return (inv - gen) * rb
 
 
-def measured_sizes(poly: np.ndarray, sizes: GearSizes) -> dict:
+def thickness_circle(sizes: GearSizes, r_form: float, margin: float) -> tuple[float, float]:
+    """(R, s_R): the circle on which the transverse tooth thickness is measured and its
+    formula value (mm).
+
+    The reference circle when it lies on the involute at least ``margin`` mm inside the form
+    circle … tip circle band; otherwise the middle of that band, with
+    s_y = d_y (s/d + inv α_t − inv α_yt), cos α_yt = d_b/d_y (ISO 21771, tooth thickness at
+    any diameter). A shift of −1 puts the tip on the reference circle, where a faceted
+    outline has no material left to measure; a large shift lifts the root above it.
+    Returns (nan, nan) when the involute band is narrower than 2·margin.
+    """
+    lo = max(r_form, sizes.rb) + margin
+    hi = sizes.ra - margin
+    if lo > hi:
+        return float("nan"), float("nan")
+    R = sizes.rp if lo <= sizes.rp <= hi else 0.5 * (lo + hi)
+    psi = float(half_thickness_angle(R, rp=sizes.rp, rb=sizes.rb, s=sizes.s))
+    return R, 2.0 * R * psi
+
+
+def measured_sizes(poly: np.ndarray, sizes: GearSizes, thick_r: float | None = None) -> dict:
     r = measure.radii(poly)
-    thick = measure.arc_thickness(poly, sizes.rp)
-    pitch = measure.angular_pitch(poly, sizes.rp)
+    R = sizes.rp if thick_r is None or math.isnan(thick_r) else thick_r
+    thick = measure.arc_thickness(poly, R)
+    pitch = measure.angular_pitch(poly, sizes.rp if _crosses(r, sizes.rp) else 0.5 * (r.min() + r.max()))
     return {
         "tip_radius": float(r.max()),
         "root_radius": float(r.min()),
@@ -43,37 +64,55 @@ def measured_sizes(poly: np.ndarray, sizes: GearSizes) -> dict:
     }
 
 
-def compare_sizes(subject: str, got: dict, sizes: GearSizes, *, size_tol: float,
-                  thickness_tol: float, where: str = "profile", check_thickness: bool = True):
-    """Errors for every measured size that disagrees with the formula."""
-    out = []
+def _crosses(r: np.ndarray, R: float) -> bool:
+    return bool(r.min() < R < r.max())
 
-    def bad(what, measured, expected, tol, formula):
+
+def compare_sizes(subject: str, got: dict, sizes: GearSizes, *, size_tol: float,
+                  thickness_tol: float, where: str = "profile", check_thickness: bool = True,
+                  thickness_at: tuple[float, float] | None = None):
+    """Errors for every measured size that disagrees with the formula.
+
+    ``thickness_at`` = (R, s_R) from :func:`thickness_circle` (default: the reference circle
+    and s). Every finding names the key to change.
+    """
+    out = []
+    R, s_want = thickness_at if thickness_at is not None else (sizes.rp, sizes.s)
+    if math.isnan(R):
+        check_thickness = False
+
+    def bad(what, measured, expected, tol, formula, key):
         out.append(Finding(ERROR, "size-mismatch",
                            f"{where}: measured {what} {measured:.4f} mm, formula {expected:.4f} mm "
-                           f"(tolerance {tol:g} mm)", subject, f"{ISO21771}: {formula}"))
+                           f"(tolerance {tol:g} mm)", subject, f"{ISO21771}: {formula}", key=key))
 
     if abs(got["tip_radius"] - sizes.ra) > size_tol:
-        bad("tip radius", got["tip_radius"], sizes.ra, size_tol, "da = d + 2 m_n (h_aP* + x − k)")
+        bad("tip radius", got["tip_radius"], sizes.ra, size_tol, "da = d + 2 m_n (h_aP* + x − k)",
+            "tip_shortening")
     if abs(got["root_radius"] - sizes.rf) > size_tol:
-        bad("root radius", got["root_radius"], sizes.rf, size_tol, "df = d − 2 m_n (h_fP* − x)")
+        bad("root radius", got["root_radius"], sizes.rf, size_tol, "df = d − 2 m_n (h_fP* − x)",
+            "profile_shift")
     if got["teeth"] != sizes.z:
         out.append(Finding(ERROR, "tooth-count", f"{where}: counted {got['teeth']} teeth, "
-                           f"expected {sizes.z}", subject, "tooth count"))
+                           f"expected {sizes.z}", subject, "tooth count", key="teeth"))
     if check_thickness and not math.isnan(got["thickness"]):
-        if abs(got["thickness"] - sizes.s) > thickness_tol:
-            bad("tooth thickness on d", got["thickness"], sizes.s, thickness_tol,
-                "s = m_t (π/2 + 2 x tan α_n) − thinning")
+        if abs(got["thickness"] - s_want) > thickness_tol:
+            what = ("tooth thickness on d" if R == sizes.rp
+                    else f"tooth thickness on d_y = {2 * R:.4f} mm")
+            bad(what, got["thickness"], s_want, thickness_tol,
+                "s = m_t (π/2 + 2 x tan α_n) − thinning; s_y = d_y (s/d + inv α_t − inv α_yt)",
+                "profile_shift")
     if not math.isnan(got["pitch_error"]) and got["pitch_error"] > 1e-4:
         out.append(Finding(ERROR, "pitch", f"{where}: angular pitch varies by "
-                           f"{math.degrees(got['pitch_error']):.4f}°", subject, "p = 2π/z"))
+                           f"{math.degrees(got['pitch_error']):.4f}°", subject, "p = 2π/z",
+                           key="teeth"))
     return out
 
 
 def gear_findings(subject: str, sizes: GearSizes, cutter: Cutter, flank: Flank,
                   poly: np.ndarray, *, force: bool = False, addendum: float = 1.0,
                   face_width: float | None = None, bore_radius: float | None = None,
-                  rack_root: float | None = None):
+                  rack_root: float | None = None, slice_margin: float = 0.0):
     """All profile findings for one gear: measured sizes, undercut, tip, teeth, module, bore."""
     out = []
     m, z, x = sizes.mn, sizes.z, sizes.x
@@ -93,10 +132,11 @@ def gear_findings(subject: str, sizes: GearSizes, cutter: Cutter, flank: Flank,
         out.append(Finding(WARNING, "thin-tip", f"tip land {s_tip:.3f} mm is under 0.2 m = "
                            f"{0.2 * m:.3f} mm", subject, "common practice: s_a ≥ 0.2 m", key="profile_shift"))
     # measured vs formula
-    got = measured_sizes(poly, sizes)
-    check_s = flank.r_junction <= sizes.rp <= sizes.ra
+    # thickness on the same circle the slice of the exported triangles will use
+    at = thickness_circle(sizes, flank.r_junction, slice_margin)
+    got = measured_sizes(poly, sizes, at[0])
     out += compare_sizes(subject, got, sizes, size_tol=TOL.size,
-                         thickness_tol=TOL.thickness_rel * m, check_thickness=check_s)
+                         thickness_tol=TOL.thickness_rel * m, thickness_at=at)
     # undercut: measured on the generated flank, formula named in the message
     depth = undercut_depth(sizes, cutter)
     # transverse section of a helical gear: z_min = 2 (h* − x) cos β / sin²α_t

@@ -93,13 +93,17 @@ def helix_angle(dtheta: float, dz: float, r_p: float) -> float:
 
 
 def check_gear_helix(poly_a, poly_b, dz: float, beta: float, r_p: float, subject: str = "",
-                     tol: float = HELIX_ANGLE_TOL) -> list:
+                     tol: float = HELIX_ANGLE_TOL, r_measure: float | None = None) -> list:
     """Findings comparing the measured turn between two slices with Δz · tan β / r_p.
 
     ``beta`` is signed: > 0 for a right hand (the section turns counter-clockwise as z grows).
+    The turn is the same on every radius (one lead for the whole helicoid), so it is measured
+    on ``r_measure`` (default r_p), a circle that must cross every tooth: with a large shift
+    the root circle lies outside the reference circle.
     """
-    got = angular_offset(poly_a, poly_b, r_p)
-    z = len(tooth_centres(poly_a, r_p))
+    r_m = r_p if r_measure is None else r_measure
+    got = angular_offset(poly_a, poly_b, r_m)
+    z = len(tooth_centres(poly_a, r_m))
     want = expected_turn(dz, beta, r_p)
     miss = fold(got - want, 2.0 * math.pi / z)
     want = got - miss  # the expected turn, taken modulo one angular pitch like the measurement
@@ -107,10 +111,12 @@ def check_gear_helix(poly_a, poly_b, dz: float, beta: float, r_p: float, subject
     if abs(miss) > tol:
         return [Finding(ERROR, "helix-turn",
                         f"section turns {math.degrees(got):.4f}° over {dz:g} mm, expected "
-                        f"{math.degrees(want):.4f}° (β {math.degrees(beta):.3f}°)", subject, src)]
+                        f"{math.degrees(want):.4f}° (β {math.degrees(beta):.3f}°)", subject, src,
+                        key="helix_angle")]
+    turn = expected_turn(dz, beta, r_p) + miss  # the measured turn, unfolded (mod a pitch)
     return [Finding(INFO, "helix-turn",
-                    f"section turn {math.degrees(got):.4f}° over {dz:g} mm matches "
-                    f"β {math.degrees(helix_angle(got, dz, r_p)):.3f}°", subject, src)]
+                    f"section turn {math.degrees(turn):.4f}° over {dz:g} mm (mod one pitch) "
+                    f"matches β {math.degrees(helix_angle(turn, dz, r_p)):.3f}°", subject, src)]
 
 
 def mirror_offset(poly_below: np.ndarray, poly_above: np.ndarray, r: float) -> float:
@@ -126,6 +132,6 @@ def check_herringbone_mirror(pairs, r: float, subject: str = "",
     if worst > tol:
         return [Finding(ERROR, "herringbone-mirror",
                         f"halves differ by {math.degrees(worst):.4f}° at the same distance from "
-                        f"the mid-plane", subject, src)]
+                        f"the mid-plane", subject, src, key="helix_angle")]
     return [Finding(INFO, "herringbone-mirror",
                     f"halves mirror within {math.degrees(worst):.5f}°", subject, src)]

@@ -47,6 +47,11 @@ class PairLimits:
     backlash_mismatch_rel: float = 0.05
     #: lengths within this of zero count as zero (float round-off, mm)
     length_eps: float = 1e-6
+    #: default largest normal backlash: the two print clearances plus this many times the
+    #: ISO/TR 10064-2 minimum backlash of a machined pair of the same center distance and
+    #: module (basis: ISO/TR 10064-2 j_bn,min; the multiple is this project's choice, so a
+    #: printed pair gets the play a machined one is given twice over, and no more)
+    max_backlash_iso_multiple: float = LIMITS.max_backlash_iso_multiple
 
 
 PAIR_LIMITS = PairLimits()
@@ -61,11 +66,25 @@ def iso_min_backlash(center_distance: float, mn: float) -> float:
     return 2.0 / 3.0 * (0.06 + 0.0005 * abs(center_distance) + 0.03 * mn)
 
 
+def max_normal_backlash(pair: PairResult, print_clearance: float,
+                        limits: PairLimits = PAIR_LIMITS) -> float:
+    """Default largest normal backlash (mm): 2 c_print + n · j_bn,min (see :class:`PairLimits`)."""
+    return (2.0 * print_clearance
+            + limits.max_backlash_iso_multiple * iso_min_backlash(pair.center_distance, pair.mn))
+
+
+def center_move(delta_jn: float, pair: PairResult) -> float:
+    """Center (or datum) distance change that changes the normal backlash by ``delta_jn`` (mm):
+    Δa = Δj_n / (2 sin α_wt cos β_b) (ISO 21771 / ISO/TR 10064-2 relation j_n = 2 Δa sin α_wt
+    cos β_b; for a rack α_wt = α_t)."""
+    return delta_jn / (2.0 * math.sin(pair.alpha_w) * math.cos(pair.beta_b))
+
+
 def pair_findings(pair: PairResult, sweep: SweepResult | None = None, *, subject: str = "",
-                  print_clearance: float | None = None,
+                  print_clearance: float | None = None, max_backlash: float | None = None,
                   limits: PairLimits = PAIR_LIMITS) -> list[Finding]:
     """Findings for one mesh, errors first. ``print_clearance`` (mm per flank) overrides the
-    default of ``limits``."""
+    default of ``limits``; ``max_backlash`` (mm, normal) overrides :func:`max_normal_backlash`."""
     clear = limits.print_clearance if print_clearance is None else print_clearance
     out: list[Finding] = []
     rack = pair.kind == RACK
@@ -113,8 +132,21 @@ def pair_findings(pair: PairResult, sweep: SweepResult | None = None, *, subject
                       f"normal backlash {jn:.3f} mm is under two print clearances of "
                       f"{clear:.3f} mm (one per flank side); printed teeth may pinch: thin the "
                       f"teeth or move the {dist_name} out by "
-                      f"{(2.0 * clear - jn) / (2.0 * math.sin(pair.alpha_w) * math.cos(pair.beta_b)):.3f} mm",
+                      f"{center_move(2.0 * clear - jn, pair):.3f} mm",
                       subject, SOURCE_FORMULA if sweep is None else SOURCE_SWEEP))
+    jmax = max_normal_backlash(pair, clear, limits) if max_backlash is None else max_backlash
+    if not (sweep is not None and sweep.status == INTERFERING) and jn > jmax + limits.length_eps:
+        basis = ("the max_backlash of the mesh" if max_backlash is not None else
+                 f"2 × print clearance + {limits.max_backlash_iso_multiple:g} × ISO/TR 10064-2 "
+                 f"j_bn,min")
+        mid = 0.5 * (2.0 * clear + jmax) if 2.0 * clear < jmax else jmax
+        out.append(Finding(WARNING, "backlash-high",
+                           f"the teeth will rattle: normal backlash {jn:.3f} mm exceeds "
+                           f"{jmax:.3f} mm ({basis}); move the {dist_name} in by at least "
+                           f"{center_move(jn - jmax, pair):.3f} mm ({center_move(jn - mid, pair):.3f}"
+                           f" mm to centre it between {2.0 * clear:.3f} and {jmax:.3f} mm), or "
+                           f"thin the teeth less", subject, "ISO/TR 10064-2; Δa = Δj_n/(2 sin α_wt "
+                           "cos β_b)", key="center_distance"))
 
     names = ("gear 1", "the rack" if rack else "gear 2")
     for i in (0, 1):
