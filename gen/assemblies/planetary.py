@@ -112,6 +112,10 @@ KEYS = (
     K.MATERIAL, K.SAFETY_FACTOR, K.FIT, K.CHORD,
 )
 
+EXAMPLE = {"module": 1.5, "sun_teeth": 12, "planet_teeth": 18, "ring_teeth": 48, "planets": 3,
+           "face_width": 12, "sun_shift": 0.3, "ring_shift": 0.3,
+           "backlash_allowance": 0.15}
+
 #: keys of the member kinds named in the assembly's terms, for error messages
 _KEY_OF = {"sun": {"teeth": "sun_teeth", "profile_shift": "sun_shift", "bore": "sun_bore"},
            "planet": {"teeth": "planet_teeth", "profile_shift": "planet_shift",
@@ -194,7 +198,8 @@ def build(entry, where) -> tuple[Assembly, dict]:
     roles = {"sun": f"{name}_sun", "ring": f"{name}_ring", "carrier": f"{name}_carrier"}
     for k in range(n):
         pname = f"{name}_planet_{k + 1}"
-        models[pname] = planet.with_(name=pname)
+        # copies of one geometry: the first carries the planet's findings
+        models[pname] = planet.with_(name=pname, findings=planet.findings if k == 0 else ())
         roles[f"planet_{k + 1}"] = pname
     models = {k: m.with_(assembly=name) for k, m in models.items()}
     asm = Assembly(name, KIND, v, roles, file=entry.file)
