@@ -67,7 +67,11 @@ def internal_pair_findings(pr, sw=None, *, subject: str = "", print_clearance=No
         add(ERROR, "trochoid-interference", f"the pinion's tips strike the ring's tips as they "
             f"leave the mesh (margin {pr.trochoid_margin:.4f} rad): tooth-count difference "
             f"{pr.tooth_difference} is too small{need}", key="teeth")
-    if pr.min_tooth_difference is not None and pr.tooth_difference < pr.min_tooth_difference:
+    if pr.min_tooth_difference is None:
+        add(WARNING, "tooth-difference", f"no pinion of this module, shift and addendum passes "
+            f"the tip-circle (trochoid) condition in this ring (difference here "
+            f"{pr.tooth_difference})", key="teeth")
+    elif pr.tooth_difference < pr.min_tooth_difference:
         add(WARNING, "tooth-difference", f"ring and pinion differ by {pr.tooth_difference} teeth; "
             f"this module, shift and addendum need at least {pr.min_tooth_difference}",
             key="teeth")
