@@ -9,7 +9,7 @@ import numpy as np
 import pytest
 
 from gen.check import check
-from tests.conftest import PARAMS
+from conftest import PARAMS
 
 SET = """assemblies:
   stage:
