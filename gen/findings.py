@@ -88,6 +88,15 @@ CODES = {
     "apex-offset": "a bevel gear's apex is off the common apex",
     "kinematics": "the kinematic relations of an assembly",
     # planetary sets
+    # issue 14: ring gears, internal meshes, planetary sets
+    "ring-tip-inside-base": "the ring's tip circle lies inside its base circle",
+    "shaper-cut": "how the ring's tooth spaces were cut",
+    "involute-interference": "the ring's tips reach inside the pinion's interference point",
+    "trochoid-interference": "pinion and ring tips strike as the teeth leave the mesh",
+    "tooth-difference": "ring and pinion tooth counts are too close",
+    "contact-past-ring-involute": "contact reaches past the ring's involute into its fillet",
+    "internal-hand": "a pinion and its ring of opposite hands",
+    "axial-assembly-only": "the pinion cannot go into the ring along a radius",
     "planetary-not-coaxial": "sun–planet and planet–ring working distances differ",
     "planet-spacing-unequal": "the planets cannot be spaced equally",
     "planets-collide": "neighbouring planets' tips do not clear",
@@ -102,6 +111,10 @@ CODES = {
     "backlash-high": "the backlash exceeds its maximum: the teeth rattle",
     "rated-at-rest": "a mesh torque was rated without a speed (0 rpm)",
     "below-min-wall": "a wall or rim is thinner than two printed lines",
+    "planetary-ratio": "ratio and member speeds of a planetary set",
+    "planetary-hand": "helix hands of a planetary set's members",
+    "planet-load": "torque and mesh forces on the most loaded planet",
+    "planetary-phase": "planets placed out of mesh phase",
     # fit coupon
     "coupon-steps": "what the coupon holds",
     "coupon-reading": "how to read the coupon",

@@ -40,6 +40,12 @@ class Limits:
     #: practice for FDM printers), and lines per load-bearing wall (common practice)
     default_nozzle: float = 0.4
     wall_lines: int = 2
+    #: least rim under an internal gear's root, in tooth depths (ISO 6336-3 backup ratio
+    #: s_R/h_t ≥ 1.2 for a full rim factor, from memory) — issue 14
+    ring_backup_ratio: float = 1.2
+    #: least wall (mm) around a mounting hole in a printed rim (common practice: ≥ 2–3 lines
+    #: of a 0.4 mm nozzle) — issue 14
+    min_wall: float = 1.0
 
 
 TOL = Tolerances()

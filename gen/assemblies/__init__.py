@@ -15,6 +15,7 @@ from gen.params.schema import Where, suggest
 #: assembly kind word -> module under gen.assemblies
 ASSEMBLY_KINDS = {
     "bevel_differential": "bevel_differential",
+    "planetary": "planetary",
 }
 
 

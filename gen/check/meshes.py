@@ -273,11 +273,50 @@ def strength_of_pair(label, names, a, b, v) -> list:
     return out
 
 
+def check_internal_pair(label, names, a, b, v):
+    """A pinion (external gear) inside a ring (internal gear): same tooth system, the SAME
+    hand, herringbone with herringbone; formula numbers, internal interferences, the swept
+    outlines and radial or axial assembly; with a torque, the Lewis estimate of both."""
+    from gen.geometry.internal_pair import mesh_internal
+    from gen.validate.internal_checks import internal_numbers, internal_pair_findings
+    from gen.validate.internal_sweep import sweep_internal
+    from gen.validate.strength import strength_findings
+
+    pin, ring = (a, b) if a.role is Role.EXTERNAL_GEAR else (b, a)
+    found = [f for f in basic_pair_findings(label, pin.name, pin.mate, ring.name, ring.mate)
+             if f.code != "same-hand"]
+    if pin.mate.hand and ring.mate.hand and pin.mate.hand != ring.mate.hand:
+        found.append(Finding(ERROR, "internal-hand", f"'{pin.name}' is {pin.mate.hand}-hand and "
+                             f"'{ring.name}' {ring.mate.hand}-hand: a pinion inside a ring needs "
+                             "the same hand", label, "internal helical mesh", key="hand"))
+    if found:
+        return found, {}, None
+    try:
+        pr = mesh_internal(pin.mate.sizes, ring.mate.sizes, v["center_distance"],
+                           face_width=min(pin.mate.face_width, ring.mate.face_width),
+                           pinion_form_radius=pin.mate.flank.r_junction,
+                           ring_involute_end=ring.mate.flank.r_involute[1])
+        sw = sweep_internal(pin.outline, ring.outline, pr)
+    except GeometryError as exc:
+        return [Finding(ERROR, "no-mesh", str(exc), label, "", key="center_distance")], {}, None
+    found = internal_pair_findings(pr, sw, subject=label, print_clearance=v["print_clearance"])
+    if v["torque"] is not None:
+        first = a if a.name == names[0] else b
+        for m in (pin, ring):
+            r, ratio = m.rating(), m.mate.sizes.z / first.mate.sizes.z
+            found += [replace(f, message=f"{m.name}: {f.message}") for f in strength_findings(
+                r["loaded"], v["material"] or m.values["material"], torque=v["torque"] * ratio,
+                rpm=(v["speed"] or 0.0) / ratio,
+                safety_factor=v["safety_factor"] or m.values["safety_factor"], subject=label)]
+    return found, internal_numbers(pr, sw), None
+
+
 #: the check for each pair of roles (order of the two parts does not matter)
 PAIR_CHECKS = {
     frozenset({Role.EXTERNAL_GEAR}): check_cylindrical_pair,
     frozenset({Role.EXTERNAL_GEAR, Role.RACK}): check_cylindrical_pair,
     frozenset({Role.BEVEL_GEAR}): check_bevel_pair,
+    frozenset({Role.EXTERNAL_GEAR, Role.INTERNAL_GEAR}): check_internal_pair,
 }
 
 
@@ -314,7 +353,7 @@ def check_meshes(result) -> None:
             result.findings.append(_param_finding(where.error(
                 "parts", f"a {a.role.value.replace('_', ' ')} and a "
                 f"{b.role.value.replace('_', ' ')} do not mesh; pairs checked: external gears "
-                "with each other or with a rack, bevel gears with each other")))
+                "with each other, with a rack or inside a ring gear, bevel gears with each other")))
             continue
         found, numbers, picture = check(label, names, a, b, v)
         rel = display_path(entry.file)

@@ -48,6 +48,10 @@ def assembly_lines(assemblies) -> list[str]:
     lines = []
     for a in assemblies:
         k = a.kinematics
+        if "ratio" in k and "carrier" not in k:   # a gearset: its ratio
+            lines.append(f"  assembly {a.name}: ratio {k['ratio']:.4f} ({k['held']} held, "
+                         f"{k['input']} in, {k['output']} out)")
+            continue
         lines.append(f"  assembly {a.name}: carrier = {k['carrier']}, output roll = {k['output_roll']}")
         lines.append(f"    inverse: {k['inverse']}")
         if "command" in k:
@@ -98,6 +102,7 @@ def json_doc(result) -> dict:
                    for d in result.drives],
         "assemblies": [{"name": a.name, "kind": a.kind, "parts": a.parts, "sizes": a.sizes,
                         "kinematics": a.kinematics,
+                        **({"ratio": a.kinematics["ratio"]} if "ratio" in a.kinematics else {}),
                         "status": "error" if any(f.severity == "error" for f in a.findings) else "ok"}
                        for a in result.assemblies],
         "drivetrains": [{"name": d.name, **d.numbers,

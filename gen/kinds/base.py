@@ -39,6 +39,7 @@ KINDS = {
     "miter_gear": "miter_gear",
     "timing_pulley": "timing_pulley",
     "fit_coupon": "coupon",
+    "ring_gear": "ring_gear",
 }
 
 
@@ -71,6 +72,19 @@ class GearMate:
 
     sizes: Any            # gen.geometry.cylindrical.GearSizes
     flank: Any            # gen.geometry.generate.Flank
+    profile: str          # ISO 53 profile letter
+    face_width: float
+    hand: str | None = None
+    chevron: bool = False
+
+
+@dataclass(frozen=True, eq=False)
+class RingMate:
+    """An internal (ring) gear in a pair check: ISO 21771 sizes as positive magnitudes."""
+
+    sizes: Any            # gen.geometry.internal.RingSizes
+    flank: Any            # gen.geometry.internal_cut.RingFlank (shaper-cut tooth space)
+    cutter: Any           # gen.geometry.internal_cut.ShaperCutter
     profile: str          # ISO 53 profile letter
     face_width: float
     hand: str | None = None
@@ -119,7 +133,7 @@ class Part:
     sizes: Mapping                # manifest sizes (mm, deg)
     findings: tuple = ()          # Finding, ...
     formulas: tuple = ()          # Formula, ...: what the sizes are measured against
-    mate: Any = None              # GearMate | RackMate | BevelMate | PulleyMate | None
+    mate: Any = None              # GearMate | RingMate | RackMate | BevelMate | PulleyMate | None
     outline: Any = None           # (n, 2) polygon of the measured section
     section: Any = None           # gen.geometry.section.Section for DXF, when there is one
     slice_checks: tuple = ()      # SliceCheck, ...: re-measure the exported triangles
