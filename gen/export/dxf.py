@@ -76,6 +76,13 @@ def dxf_bytes(section, name: str) -> bytes:
     ezdxf.options.write_fixed_meta_data_for_testing = True
     try:
         doc = ezdxf.new(DXF_VERSION, setup=False)
+        # register the CLASS entries now, in a fixed order: left to the writer, the classes of
+        # the object types in use are added while iterating a set, so the CLASSES order (and
+        # the file's bytes) followed Python's string-hash seed
+        from ezdxf.sections.classes import REQ_R2000
+
+        for name in REQ_R2000:   # the library's full list, in its order
+            doc.classes.add_class(name)
         doc.header["$INSUNITS"] = INSUNITS_MM
         doc.header["$MEASUREMENT"] = 1   # metric
         doc.header["$LUNITS"] = 2        # decimal
