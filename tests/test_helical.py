@@ -28,8 +28,14 @@ def test_shigley_example_13_2():
 
 
 def test_metric_helical_pair():
-    # shared references (computed): mn 2, β 15°, z 20/40 → mt 2.0706, αt 20.647°,
-    # d 41.411/82.822, a 62.117 mm
+    # ISO 21771 helical relations (from memory): mt = mn/cos β, tan αt = tan αn/cos β, d = z mt,
+    # a = (d1 + d2)/2; mn 2, β 15°, z 20/40 → mt 2.0706, αt 20.647°,
+    # d 41.411/82.822, a 62.117 mm (computed; recomputed by the closed forms just below)
+    b15 = math.radians(15)
+    assert 2 / math.cos(b15) == pytest.approx(2.0706, abs=5e-5)
+    at = math.atan(math.tan(math.radians(20)) / math.cos(b15))
+    assert math.degrees(at) == pytest.approx(20.647, abs=5e-4)
+    assert 60 * 2 / math.cos(b15) / 2 == pytest.approx(62.117, abs=5e-4)
     rack, beta = basic_rack("A"), math.radians(15)
     g1, g2 = gear_sizes(20, 2.0, rack, beta=beta), gear_sizes(40, 2.0, rack, beta=beta)
     assert g1.mt == pytest.approx(2.0706, abs=5e-5)
