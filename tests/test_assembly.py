@@ -46,7 +46,16 @@ def test_placed_gears_clear_and_wrong_mounting_is_an_error(write_yaml):
     # the frame puts the output gears' back faces 0.3 m too close to the apex
     bad = check([write_yaml(WRIST.format(outputs=1, extra="    output_mounting_error: -0.45\n"))])
     errors = [f for f in bad.findings if f.severity == "error"]
-    assert errors and any("overlap" in f.message or "apex" in f.message for f in errors)
+    # both input gears mesh the misplaced output: each pair's apexes sit the mounting error
+    # apart, 0.45 mm (computed: the output slides along its own axis, which runs through the
+    # common apex), over the placement limit, and the teeth then overlap
+    assert {(f.code, f.scope, f.subject, f.key) for f in errors} == {
+        ("apex-offset", "assembly", "wrist", "output_mounting_error"),
+        ("bevel-overlap", "assembly", "wrist", "output_mounting_error")}
+    assert len(errors) == 4
+    apex = [f for f in errors if f.code == "apex-offset"]
+    assert {f.message.split(":")[0] for f in apex} == {"input_1/output_1", "input_2/output_1"}
+    assert all("0.450 mm apart" in f.message for f in apex)
 
 
 def test_assembly_outputs(tmp_path, write_yaml):

@@ -42,7 +42,8 @@ def hull_length(C, D, d, n=20000):
     return MultiPoint(pts).convex_hull.length
 
 
-# references.md, "Synchronous belts": 2 mm pitch, 20/60 teeth, C 40 → L 164.088 mm,
+# open-belt length L = 2C cos φ + π(D+d)/2 + φ(D−d) (from memory): 2 mm pitch, 20/60 teeth,
+# C 40 → L 164.088 mm,
 # wrap 142.88°, 7.94 teeth in mesh (computed; recomputed here from tangent points and hull)
 def test_reference_2mm_20_60_c40():
     d, D = dp(20, 2.0), dp(60, 2.0)
@@ -57,7 +58,7 @@ def test_reference_2mm_20_60_c40():
     assert teeth_in_mesh(20, theta) == pytest.approx(7.94, abs=5e-3)
 
 
-# references.md: 5 mm pitch, 15/45 teeth, C 60 → L 279.631 mm, 5.55 teeth in mesh (computed)
+# same formula (from memory): 5 mm pitch, 15/45 teeth, C 60 → L 279.631 mm, 5.55 teeth in mesh (computed)
 @pytest.mark.parametrize("profile", ["T5", "curv5"])
 def test_reference_5mm_15_45_c60_warns(profile):
     d, D = dp(15, 5.0), dp(45, 5.0)

@@ -30,7 +30,8 @@ def call(argv, capsys):
 
 
 def test_text_summary_2mm_reference(capsys):
-    # references.md: 2 mm pitch, 20/60, C 40 → L 164.088 mm (computed); the nearest belt
+    # open-belt length formula (from memory): 2 mm pitch, 20/60, C 40 → L 164.088 mm
+    # (computed); the nearest belt
     # has 82 teeth = 164 mm
     rc, out, err = call(["belt", "--profile", "curv2", "--teeth", "20", "60",
                          "--center", "40"], capsys)
@@ -51,7 +52,7 @@ def test_json_keys_and_values(capsys):
     for key in ("belt_length", "belt_teeth", "center_distance", "ratio", "wrap_angle",
                 "teeth_in_mesh"):
         assert key in data
-    # references.md: 5 mm, 15/45, C 60 → L 279.631 mm, 5.55 in mesh (computed)
+    # open-belt length formula (from memory): 5 mm, 15/45, C 60 → L 279.631 mm, 5.55 in mesh (computed)
     assert data["requested_length"] == pytest.approx(279.631, abs=5e-4)
     assert data["belt_teeth"] == 56 and data["belt_length"] == pytest.approx(280.0)
     d, D = 75.0 / math.pi, 225.0 / math.pi

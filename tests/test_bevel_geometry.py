@@ -20,7 +20,8 @@ RIGHT = math.pi / 2
 
 
 def test_reference_pair_m3_z20_40():
-    # shared references, bevel gears: m 3, z 20/40, Σ 90° → δ 26.565°/63.435°, Re 67.082,
+    # ISO 23509 conventions (from memory): tan δ1 = z1/z2 at Σ 90°, Re = de/(2 sin δ), b ≤ Re/3,
+    # Tredgold zv = z/cos δ: m 3, z 20/40 → δ 26.565°/63.435°, Re 67.082,
     # b ≤ 22.36, zv 22.36/89.44 (computed)
     s1 = bevel_sizes(20, 40, 3.0, RIGHT, 20.0, RACK)
     s2 = mating_sizes(s1)
@@ -40,7 +41,7 @@ def test_reference_pair_m3_z20_40():
 
 
 def test_reference_miter_m2_z25():
-    # shared references: miter m 2, z 25 → Re 35.355, b ≤ 11.79, zv 35.36 (computed)
+    # same relations (ISO 23509, from memory): miter m 2, z 25 → Re 35.355, b ≤ 11.79, zv 35.36 (computed)
     s = bevel_sizes(25, 25, 2.0, RIGHT, 10.0, RACK)
     assert math.degrees(s.delta) == pytest.approx(45.0, abs=1e-12)
     assert s.Re == pytest.approx(35.355, abs=5e-4)
@@ -74,7 +75,7 @@ def test_face_width_limit_raises_with_the_limit():
 
 
 def test_heights_angles_and_shift():
-    # ISO 53 profile A: ha = 1.0 m, hf = 1.25 m (shared references, from memory)
+    # ISO 53:1998 profile A: ha = 1.0 m, hf = 1.25 m (from memory)
     s = bevel_sizes(20, 40, 3.0, RIGHT, 20.0, RACK, x=0.2)
     assert s.ha == pytest.approx(3.0 * 1.2) and s.hf == pytest.approx(3.0 * 1.05)
     mate = mating_sizes(s)
@@ -176,7 +177,7 @@ def test_mounting_distance_and_blank():
 
 
 def test_undercut_judged_on_virtual_teeth():
-    # rack undercut limit z_min = 2/sin²α = 17.1 at 20° (shared references, doc), here for zv:
+    # rack-generation undercut limit z_min = 2/sin²α (from memory) = 17.1 at 20° (computed), here for zv:
     # miter z 12 → zv 16.97 (undercut), z 13 → zv 18.38 (not), computed zv = z √2
     codes = {}
     for z in (12, 13):
@@ -184,7 +185,7 @@ def test_undercut_judged_on_virtual_teeth():
         codes[z] = {f.code: f.severity for f in bevel_findings(s, virtual_flank(s))}
     assert codes[12].get("undercut") == WARNING
     assert "undercut" not in codes[13]
-    # shift removes it: x ≥ 1 − zv sin²α / 2 (shared references)
+    # shift removes it: x ≥ 1 − zv sin²α / 2 (rack-generation undercut condition, from memory)
     xmin = 1 - 12 * math.sqrt(2) * math.sin(math.radians(20)) ** 2 / 2
     s = bevel_sizes(12, 12, 2.0, RIGHT, 3.0, RACK, x=xmin + 0.01)
     assert "undercut" not in {f.code for f in bevel_findings(s, virtual_flank(s))}

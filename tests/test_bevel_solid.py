@@ -78,7 +78,8 @@ def test_tooth_height_scales_with_cone_distance_on_the_solid(gear):
         tip = max(r for r, _ in _on_cone(tooth, s, kk))
         root = max(r for r, _ in _on_cone(space, s, kk))
         heights.append((tip - root) / math.cos(s.delta))   # along the cone generator
-    # ISO 53 profile A whole depth 2.25 m at the large end (shared references, from memory)
+    # ISO 53 profile A whole depth 2.25 m at the large end
+    # (ISO 53:1998 h_aP + h_fP = 1.0 + 1.25 m, from memory)
     assert heights[0] == pytest.approx(2.25 * M, abs=1e-3)
     assert heights[1] / heights[0] == pytest.approx(k, abs=1e-4)
 

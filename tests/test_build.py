@@ -12,8 +12,6 @@ import trimesh
 
 from conftest import PARAMS
 from gen.cli import main
-from gen.geometry.basic_rack import basic_rack
-from gen.geometry.cylindrical import gear_sizes
 from gen.triangles.prism import slice_polygons
 from gen.validate import measure
 
@@ -39,18 +37,61 @@ def _sha(path):
     return hashlib.sha256(open(path, "rb").read()).hexdigest()
 
 
+def _demo_parts():
+    """{name: (kind, values)} of every part the demo files declare, read here from the YAML:
+    `parts:`, train members (with the train's module, pressure and helix angle), and the
+    parts a bevel differential assembly makes (two inputs, `outputs` outputs)."""
+    import glob
+
+    import yaml
+
+    parts = {}
+    for path in sorted(glob.glob(os.path.join(PARAMS, "*.yaml"))):
+        doc = yaml.safe_load(open(path))
+        for name, values in (doc.get("parts") or {}).items():
+            parts[name] = (values["kind"], values)
+        for train in (doc.get("trains") or {}).values():
+            shared = {k: v for k, v in train.items() if k != "parts"}
+            for name, values in train["parts"].items():
+                parts[name] = (values["kind"], {**shared, **values})
+        for name, asm in (doc.get("assemblies") or {}).items():
+            assert asm["kind"] == "bevel_differential"
+            parts[f"assembly:{name}"] = (asm["kind"], asm)
+            for i in (1, 2):
+                parts[f"{name}_input_{i}"] = ("bevel_gear", asm)
+            for i in range(1, asm.get("outputs", 1) + 1):
+                parts[f"{name}_output_{i}"] = ("bevel_gear", asm)
+    return parts
+
+
 def test_manifest_lists_every_part(demo):
     man = json.load(open(demo / "manifest.json"))
     assert man["units"] == {"length": "mm", "angle": "deg", "volume": "mm3"}
+    declared = _demo_parts()
+    assert set(man["parts"]) == set(declared)
     for name, part in man["parts"].items():
+        kind, values = declared[name]
+        assert part["kind"] == kind, name
         assert part["status"] == "built"
+        # default formats: STEP and STL for every part, STEP only for an assembly
+        assert set(part["files"]) == ({"step"} if name.startswith("assembly:") else {"step", "stl"})
         for fmt, info in part["files"].items():
             path = demo / info["path"]
             assert path.exists() and os.path.getsize(path) == info["bytes"]
             assert _sha(path) == info["sha256"]
-        if part["kind"] == "spur_gear":
-            for key in ("pitch_diameter", "tip_diameter", "root_diameter", "base_diameter"):
-                assert key in part["sizes"]
+        if kind in ("spur_gear", "helical_gear", "herringbone_gear"):
+            # ISO 21771 (from memory), ISO 53 A (h_aP 1.0 m, h_fP 1.25 m; from memory), from the
+            # YAML values: d = z mn / cos β, da = d + 2 mn (1 + x), df = d − 2 mn (1.25 − x),
+            # db = d cos αt with tan αt = tan αn / cos β (computed)
+            mn, z = values["module"], values["teeth"]
+            x = values.get("profile_shift", 0.0)
+            beta = math.radians(values.get("helix_angle", 0.0)) if kind != "spur_gear" else 0.0
+            at = math.atan(math.tan(math.radians(values.get("pressure_angle", 20.0))) / math.cos(beta))
+            d = z * mn / math.cos(beta)
+            want = {"pitch_diameter": d, "tip_diameter": d + 2 * mn * (1 + x),
+                    "root_diameter": d - 2 * mn * (1.25 - x), "base_diameter": d * math.cos(at)}
+            for key, value in want.items():
+                assert part["sizes"][key] == pytest.approx(value, abs=1e-9), (name, key)
 
 
 def test_no_partial_files_left(demo):
@@ -61,22 +102,28 @@ def test_pinion_stl_measures_iso21771(demo):
     # tray pinion: m 2, z 12, x +0.4, thinning 0.12 (demo values); sizes per ISO 21771 (computed)
     mesh = trimesh.load(demo / "tray_pinion.stl")
     assert mesh.is_watertight and mesh.volume > 0
-    sizes = gear_sizes(12, 2.0, basic_rack("A"), x=0.4, thinning=0.12)
+    # closed forms written here (ISO 21771, from memory; ISO 53 A h_fP = 1.25 m, from memory):
+    # d = z m = 24, ra = d/2 + m (1 + x) = 14.8, rf = d/2 − m (1.25 − x) = 10.3,
+    # rb = (d/2) cos 20°, s = m (π/2 + 2 x tan 20°) − thinning (computed)
+    d, m, x = 24.0, 2.0, 0.4
+    ra, rf = d / 2 + m * (1 + x), d / 2 - m * (1.25 - x)
+    rb = d / 2 * math.cos(math.radians(20))
+    s_arc = m * (math.pi / 2 + 2 * x * math.tan(math.radians(20))) - 0.12
     lo, hi = mesh.bounds
     assert lo[2] == pytest.approx(0.0, abs=1e-9) and hi[2] == pytest.approx(10.0, abs=1e-9)
     # centred on the axis: tip circle extent within the chordal tolerance (0.01 mm)
-    assert np.allclose(np.abs([lo[0], hi[0], lo[1], hi[1]]), sizes.ra, atol=0.011)
+    assert np.allclose(np.abs([lo[0], hi[0], lo[1], hi[1]]), ra, atol=0.011)
     # mesh vertices lie on the exact section (float32 in STL: ~1e-6 mm); the bore is inside
     r = np.hypot(mesh.vertices[:, 0], mesh.vertices[:, 1])
-    assert r.max() == pytest.approx(sizes.ra, abs=1e-5)
-    assert r[r > sizes.rb - 2.0].min() == pytest.approx(sizes.rf, abs=1e-5)
+    assert r.max() == pytest.approx(ra, abs=1e-5)
+    assert r[r > rb - 2.0].min() == pytest.approx(rf, abs=1e-5)
     # a mid-height slice cuts facet diagonals: within the chordal tolerance (0.01 mm)
     outer = max(slice_polygons(mesh, 5.0), key=len)
-    assert measure.radii(outer).min() == pytest.approx(sizes.rf, abs=0.011)
+    assert measure.radii(outer).min() == pytest.approx(rf, abs=0.011)
     assert measure.tooth_count(outer) == 12
     # chordal thickness on d: s̄ = d sin(s/d) (ISO 21771, from memory); facets ≤ 0.01 mm
-    chord = measure.chordal_thickness(outer, sizes.rp)
-    assert np.abs(chord - sizes.d * math.sin(sizes.s / sizes.d)).max() < 0.02
+    chord = measure.chordal_thickness(outer, d / 2)
+    assert np.abs(chord - d * math.sin(s_arc / d)).max() < 0.02
 
 
 def test_step_reimports_as_one_valid_solid(demo):

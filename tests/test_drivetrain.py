@@ -132,7 +132,8 @@ def test_curve_motor_matches_its_straight_line_and_interpolates():
     assert step.speed_for(0.3) == pytest.approx(300 + (0.5 - 0.3) / 0.4 * 1200)
     assert step.speed_for(0.6) is None and step.torque_at(2000) == 0.0
     res = solve_chain(step, [planetary_stage(12, 48)], Load(torque=0.3 * 5 * 0.97))
-    assert res.total_ratio == pytest.approx(5.0)       # references.md: 12/18/48 → i 5 (computed)
+    # Willis, ring held: i = 1 + 48/12 = 5 (from memory; computed)
+    assert res.total_ratio == pytest.approx(5.0)
     assert res.motor_speed == pytest.approx(900.0)
 
 

@@ -14,7 +14,8 @@ from gen.geometry.section import signed_area
 
 @pytest.mark.parametrize("wraps,ratio", [(1, 3.51), (2, 12.35), (3, 43.38)])
 def test_capstan_ratio(wraps, ratio):
-    # shared references (computed): μ 0.2, 1/2/3 wraps → 3.51 / 12.35 / 43.38
+    # capstan equation T1/T2 = e^(μθ) (Euler–Eytelwein, from memory): μ 0.2, 1/2/3 wraps →
+    # 3.51 / 12.35 / 43.38 (computed)
     r = capstan_ratio(0.2, 2 * math.pi * wraps)
     assert r == pytest.approx(ratio, abs=0.005)
     # independent route: integrate dT/dθ = μ T (Euler–Eytelwein, from memory) in small steps

@@ -30,22 +30,43 @@ def test_fit_compensates_teeth_tip_and_bore(write_yaml):
 
 
 def test_fit_widens_pulley_grooves(write_yaml):
-    res = check([write_yaml(TEXT)])
-    s = res.models["pulley"].sizes
-    # groove allowance moves each flank back by it: outside diameter − 2 × 0.08 (pulley
-    # module convention), dp unchanged (ISO 5288 definition, doc)
-    assert s["fit_allowance"] == pytest.approx(0.08)
-    assert s["pitch_diameter"] == pytest.approx(20 * 2.0 / math.pi)
+    from shapely.geometry import Polygon
+
+    from gen.validate import measure
+
+    text = TEXT + "  bare_pulley: {kind: timing_pulley, profile: curv2, teeth: 20, belt_width: 6}\n"
+    res = check([write_yaml(text)])
+    fitted, bare = res.models["pulley"], res.models["bare_pulley"]
+    # the groove allowance moves every flank back by it: the fitted outline is the bare one
+    # offset inward by 0.08 mm. Second route: shapely's own offset of the bare polygon
+    # (buffer, an independent construction); both polygons are drawn at the 0.01 mm chord
+    # tolerance, so they agree within it. Ignoring the fit would leave them 0.08 mm apart.
+    offset = Polygon(bare.outline).buffer(-0.08, quad_segs=64)
+    assert offset.hausdorff_distance(Polygon(fitted.outline)) < 0.01
+    # outside diameter do = z p/π − 2a (ISO 5288 definition, doc), a = 0.254 mm for the 2 mm
+    # curvilinear pitch (common practice), less 2 × 0.08 for the allowance (computed)
+    do = 20 * 2.0 / math.pi - 2 * 0.254
+    assert 2 * measure.radii(bare.outline).max() == pytest.approx(do, abs=1e-6)
+    assert 2 * measure.radii(fitted.outline).max() == pytest.approx(do - 2 * 0.08, abs=1e-6)
+    # dp unchanged by the fit (ISO 5288 definition, doc)
+    assert fitted.sizes["fit_allowance"] == pytest.approx(0.08)
+    assert fitted.sizes["pitch_diameter"] == pytest.approx(20 * 2.0 / math.pi)
 
 
 def test_measured_profile_matches_compensated_formula(write_yaml):
-    from gen.validate.gear_checks import measured_sizes
+    from gen.validate import measure
 
     res = check([write_yaml(TEXT)])
-    m = res.models["fitted"]
-    got = measured_sizes(m.outline, m.mate.sizes)
-    assert got["tip_radius"] == pytest.approx(m.sizes["tip_diameter"] / 2, abs=1e-9)
-    assert got["thickness"] == pytest.approx(m.sizes["tooth_thickness"], abs=2e-3)
+    poly = res.models["fitted"].outline
+    # expected by closed forms written here, not read from the part (computed):
+    # ISO 21771 (from memory) m 2, z 20, x 0: d = 40 mm, da = d + 2 m = 44 mm, s = π m / 2;
+    # the fit 'shop' cuts the tip radius by outline_offset 0.05 mm and thins each flank by
+    # flank_clearance 0.08 mm on the reference circle (fit definitions above)
+    assert measure.radii(poly).max() == pytest.approx(44.0 / 2 - 0.05, abs=1e-9)
+    thick = measure.arc_thickness(poly, 40.0 / 2)
+    assert len(thick) == 20
+    # polygon chords at 0.01 mm cost < 2e-3 mm of arc thickness
+    assert thick == pytest.approx([math.pi * 2.0 / 2 - 2 * 0.08] * 20, abs=2e-3)
 
 
 def test_unknown_fit_lists_the_names(write_yaml):

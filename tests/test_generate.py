@@ -48,8 +48,8 @@ def test_form_circle_matches_the_cutter_corner():
 
 
 def test_undercut_limit_formula():
-    # shared references (doc for 20°, computed otherwise): z_min = 2/sin²α → 17.1 at 20°,
-    # 31.9 at 14.5°, 11.2 at 25°
+    # rack-generation undercut limit z_min = 2/sin²α (from memory) → 17.1 at 20°,
+    # 31.9 at 14.5°, 11.2 at 25° (computed)
     assert undercut_limit_teeth(math.radians(20)) == pytest.approx(17.1, abs=0.05)
     assert undercut_limit_teeth(math.radians(14.5)) == pytest.approx(31.9, abs=0.05)
     assert undercut_limit_teeth(math.radians(25)) == pytest.approx(11.2, abs=0.05)
@@ -59,7 +59,7 @@ def test_undercut_limit_formula():
 
 def test_undercut_appears_at_12_teeth_unshifted():
     # z = 12 < 17.1 with x = 0: the generating rack cuts into the involute near the base
-    # circle (shared references, undercut limit).
+    # circle (undercut limit z_min = 2/sin²α = 17.1 at 20°, from memory; computed).
     sizes, cutter, flank = spur_flank(12, m=2.0, x=0.0)
     assert undercut_depth(sizes, cutter) > 1e-6
 

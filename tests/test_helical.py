@@ -28,8 +28,14 @@ def test_shigley_example_13_2():
 
 
 def test_metric_helical_pair():
-    # shared references (computed): mn 2, β 15°, z 20/40 → mt 2.0706, αt 20.647°,
-    # d 41.411/82.822, a 62.117 mm
+    # ISO 21771 helical relations (from memory): mt = mn/cos β, tan αt = tan αn/cos β, d = z mt,
+    # a = (d1 + d2)/2; mn 2, β 15°, z 20/40 → mt 2.0706, αt 20.647°,
+    # d 41.411/82.822, a 62.117 mm (computed; recomputed by the closed forms just below)
+    b15 = math.radians(15)
+    assert 2 / math.cos(b15) == pytest.approx(2.0706, abs=5e-5)
+    at = math.atan(math.tan(math.radians(20)) / math.cos(b15))
+    assert math.degrees(at) == pytest.approx(20.647, abs=5e-4)
+    assert 60 * 2 / math.cos(b15) / 2 == pytest.approx(62.117, abs=5e-4)
     rack, beta = basic_rack("A"), math.radians(15)
     g1, g2 = gear_sizes(20, 2.0, rack, beta=beta), gear_sizes(40, 2.0, rack, beta=beta)
     assert g1.mt == pytest.approx(2.0706, abs=5e-5)
@@ -60,30 +66,48 @@ def built(tmp_path_factory):
     return out, check([str(src)])
 
 
+def _fold(value, period):
+    """value brought into [−period/2, period/2) (written here, not the project's own fold)."""
+    return (value + 0.5 * period) % period - 0.5 * period
+
+
 def test_helix_measured_on_exported_stl(built):
     import trimesh
 
     from gen.triangles.prism import slice_polygons
-    from gen.validate.helix import angular_offset, expected_turn, fold, linear_offset
+    from gen.validate.helix import angular_offset, linear_offset
 
-    out, res = built
-    s = res.models["hel"].mate.sizes
-    mesh = trimesh.load(out / "hel.stl")
-    a, b = (max(slice_polygons(mesh, z), key=len) for z in (1.0, 9.0))
-    turn = angular_offset(a, b, s.rp, 20)
-    # Δθ = Δz tan β / r_p (ISO 21771 helix), right hand turns counter-clockwise: within 0.05°
-    want = fold(expected_turn(8.0, s.beta, s.rp), 2 * math.pi / 20)
-    assert math.degrees(abs(turn - want)) < 0.05
-    # herringbone halves mirror about the mid-plane (6 mm)
-    mesh = trimesh.load(out / "her.stl")
-    r = res.models["her"].mate.sizes.rp
-    lo, hi = (max(slice_polygons(mesh, z), key=len) for z in (2.0, 10.0))
-    assert math.degrees(abs(angular_offset(lo, hi, r, 24))) < 0.05
-    # helical rack: tooth traces shift Δx = Δz tan β along the rack
-    mesh = trimesh.load(out / "hrack.stl")
-    p = res.models["hrack"].sizes["pitch"]
-    a, b = (max(slice_polygons(mesh, z), key=len) for z in (1.0, 3.0))
-    assert linear_offset(a, b, 0.0, p) == pytest.approx(fold(2.0 * math.tan(math.radians(20)), p), abs=1e-3)
+    out, _ = built
+
+    def slices(name, *heights):
+        mesh = trimesh.load(out / f"{name}.stl")
+        return [max(slice_polygons(mesh, z), key=len) for z in heights]
+
+    # helical gear 'hel': mn 2, z 20, β 20°, right hand. ISO 21771 (from memory):
+    # r_p = z mn / (2 cos β); the section turns Δθ = Δz tan β / r_p, counter-clockwise seen
+    # from +Z for a right hand (the project's stated convention), computed here
+    beta = math.radians(20)
+    rp = 20 * 2.0 / (2 * math.cos(beta))
+    a, b = slices("hel", 1.0, 9.0)
+    want = _fold(8.0 * math.tan(beta) / rp, 2 * math.pi / 20)
+    assert math.degrees(abs(angular_offset(a, b, rp, 20) - want)) < 0.05
+    # herringbone 'her': mn 2, z 24, β 30°, face 12 with a 2 mm groove → helices on z 0–5
+    # and 7–12. Each half turns by Δz tan β / r_p, the upper half the other way, so slices
+    # at mirror heights coincide. An untwisted part fails the first two checks.
+    beta = math.radians(30)
+    rp = 24 * 2.0 / (2 * math.cos(beta))
+    turn = 3.0 * math.tan(beta) / rp                         # over Δz = 3 mm (computed)
+    z1, z4, z8, z11 = slices("her", 1.0, 4.0, 8.0, 11.0)
+    pitch = 2 * math.pi / 24
+    assert math.degrees(abs(angular_offset(z1, z4, rp, 24) - _fold(turn, pitch))) < 0.05
+    assert math.degrees(abs(angular_offset(z8, z11, rp, 24) - _fold(-turn, pitch))) < 0.05
+    assert math.degrees(abs(angular_offset(z1, z11, rp, 24))) < 0.05
+    # helical rack 'hrack': mn 2, β 20°: transverse pitch p_t = π mn / cos β along the rack
+    # (ISO 21771, from memory); tooth traces shift Δx = Δz tan β (computed)
+    beta = math.radians(20)
+    p = math.pi * 2.0 / math.cos(beta)
+    a, b = slices("hrack", 1.0, 3.0)
+    assert linear_offset(a, b, 0.0, p) == pytest.approx(_fold(2.0 * math.tan(beta), p), abs=1e-3)
 
 
 def test_step_reimports_and_volumes_agree(built):

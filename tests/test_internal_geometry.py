@@ -49,7 +49,7 @@ def test_iso21771_sizes_of_an_internal_gear():
 
 
 def test_helical_ring_uses_transverse_values():
-    # helical relations (shared references, from memory): m_t = m_n/cos β,
+    # ISO 21771 helical relations (from memory): m_t = m_n/cos β,
     # tan α_t = tan α_n/cos β; m_n 2, β 15°, z 50 → d = 50·2/cos 15° = 103.528 mm (computed)
     r = ring_sizes(50, 2.0, RACK_A, beta=math.radians(15.0))
     assert r.d == pytest.approx(100.0 / math.cos(math.radians(15.0)), abs=1e-12)

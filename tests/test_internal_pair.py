@@ -68,7 +68,7 @@ def test_working_center_distance_with_shifts(z1, z2, x1, x2):
 
 
 def test_coaxial_planetary_center_distances():
-    # shared references (from memory): coaxial standard planetary z_r = z_s + 2 z_p;
+    # coaxial standard planetary z_r = z_s + 2 z_p (from memory);
     # sun 12 / planet 18 / ring 48 → the planet–ring distance equals the sun–planet one
     # (m(12 + 18)/2 = m(48 − 18)/2 = 15 m, computed)
     p, r, res = pair(18, 48, check_radial=False)
@@ -202,7 +202,7 @@ def test_tooth_difference_limits_agree_with_the_margins():
         q = gear_sizes(48 - d, 2.0, RACK_A)
         m = mesh_internal(q, r, check_radial=False)
         assert (m.trochoid_margin >= 0) == ok
-    # practice says 10–12 teeth at 20° unshifted (shared references); the condition allows a
+    # practice says 10–12 teeth at 20° unshifted (common practice); the condition allows a
     # little less, 8 here: the rule of thumb is a safe side of it
     assert 6 <= lo <= 12
     q = gear_sizes(48 - hi, 2.0, RACK_A)

@@ -69,7 +69,7 @@ def test_moving_the_pinion_out_tightens_the_mesh():
 
 
 def test_small_tooth_difference_interferes():
-    # 20 in 24, no shift: far below the 10–12 tooth difference of practice (shared references)
+    # 20 in 24, no shift: far below the 10–12 tooth difference of practice (common practice)
     pr, res, _, _ = run(20, 24, z0=12)
     assert res.status == INTERFERING
     assert res.overlap_area > 0.1          # mm², a gross overlap, not a grazing contact

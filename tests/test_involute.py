@@ -29,7 +29,8 @@ def test_inverse_vectorised():
 
 
 def test_shifted_pair_working_angle():
-    # shared references (computed): m 2, z 12/30, x 0.4/0.2 → inv αw = 0.025304, αw = 23.693°
+    # ISO 21771 (from memory): inv αw = inv α + 2 tan α (x1 + x2)/(z1 + z2); m 2, z 12/30,
+    # x 0.4/0.2 → inv αw = 0.025304, αw = 23.693° (computed)
     a = math.radians(20)
     inv_w = inv(a) + 2 * math.tan(a) * (0.4 + 0.2) / (12 + 30)
     assert inv_w == pytest.approx(0.025304, abs=5e-7)

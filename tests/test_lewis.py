@@ -13,7 +13,7 @@ from gen.geometry.generate import generate_flank
 from gen.geometry.lewis import form_factor, lewis_gear, lewis_rack, lewis_spur
 
 # Shigley, Mechanical Engineering Design, Table 14-2: Lewis form factor Y, 20° full depth,
-# load at the tip (from memory, see shared references). None = rack.
+# load at the tip (from memory). None = rack.
 SHIGLEY_Y = {12: 0.245, 17: 0.303, 20: 0.322, 30: 0.359, 50: 0.409, 100: 0.447, None: 0.485}
 
 # The 20° full-depth tooth is the ISO 53 basic rack with h_aP = 1.0 m, h_fP = 1.25 m; of the

@@ -15,8 +15,9 @@ meshes:
 
 
 def test_json_numbers_for_the_shifted_pair(write_yaml, capsys):
-    # shared references (computed): m 2, z 12/30, x 0.4/0.2 → aw 43.100 mm, αw 23.693°,
-    # εα 1.395 without tip shortening (these gears keep da = d + 2m(1 + x))
+    # ISO 21771 (from memory) inv αw and aw = a cos α / cos αw; contact ratio from the line of
+    # action (from memory): m 2, z 12/30, x 0.4/0.2 → aw 43.100 mm, αw 23.693°,
+    # εα 1.395 without tip shortening (these gears keep da = d + 2m(1 + x)) (computed)
     assert main(["check", write_yaml(PAIR % ""), "--json"]) == 0
     mesh = json.loads(capsys.readouterr().out)["meshes"][0]
     for key in ("center_distance", "working_pressure_angle", "contact_ratio",

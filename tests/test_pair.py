@@ -55,7 +55,7 @@ def _shifted_pair(tip_shortening=0.0):
 
 
 def test_profile_shifted_pair_reference():
-    # /work/shared/references.md, "Profile-shifted pair (computed)": m 2, α 20°, z 12/30,
+    # ISO 21771 profile-shifted pair (relations from memory, values computed): m 2, α 20°, z 12/30,
     # x +0.4/+0.2 → inv αw 0.025304, αw 23.693°, a 42.000, aw 43.100, y 0.5500, k 0.0500
     g1, g2 = _shifted_pair()
     r = mesh_pair(g1, g2)
@@ -75,13 +75,14 @@ def test_profile_shifted_pair_reference():
 
 
 def test_profile_shifted_contact_ratio_with_and_without_tip_shortening():
-    # references.md (computed): εα 1.334 with tip shortening k (da 29.400/64.600),
+    # contact ratio from the line of action (from memory; computed): εα 1.334 with tip
+    # shortening k (da 29.400/64.600),
     # 1.395 without (da = d + 2m(1 + x))
     plain = mesh_pair(*_shifted_pair())
     assert plain.contact_ratio == pytest.approx(1.395, abs=5e-4)
     short = mesh_pair(*_shifted_pair(tip_shortening=plain.k))
     assert short.contact_ratio == pytest.approx(1.334, abs=5e-4)
-    # references.md (computed): da 29.400/64.600, df 20.600/55.800 with tip shortening
+    # ISO 21771 (from memory; computed): da 29.400/64.600, df 20.600/55.800 with tip shortening
     g1, g2 = _shifted_pair(tip_shortening=plain.k)
     assert (2 * g1.ra, 2 * g2.ra) == pytest.approx((29.400, 64.600), abs=5e-4)
     assert (2 * g1.rf, 2 * g2.rf) == pytest.approx((20.600, 55.800), abs=5e-4)
@@ -92,8 +93,8 @@ def test_profile_shifted_contact_ratio_with_and_without_tip_shortening():
 
 
 @pytest.mark.parametrize("m, z1, z2, expected", [
-    (2.0, 20, 40, 1.635),   # references.md (computed): m 2, z 20/40, standard → 1.635
-    (1.0, 20, 20, 1.557),   # references.md (computed): m 1, z 20/20 → 1.557
+    (2.0, 20, 40, 1.635),   # line of action (from memory; computed): m 2, z 20/40 → 1.635
+    (1.0, 20, 20, 1.557),   # line of action (from memory; computed): m 1, z 20/20 → 1.557
 ])
 def test_standard_contact_ratio(m, z1, z2, expected):
     g1, g2 = gear_sizes(z1, m, RACK_A), gear_sizes(z2, m, RACK_A)
@@ -156,7 +157,8 @@ def test_tight_center_distance_zeroes_backlash():
 
 
 def test_helical_pair_transverse_values():
-    # references.md (computed): mn 2, β 15°, z 20/40 → mt 2.0706, αt 20.647°, a 62.117 mm;
+    # ISO 21771 helical relations (from memory; computed): mn 2, β 15°, z 20/40 → mt 2.0706,
+    # αt 20.647°, a 62.117 mm;
     # εβ = b sin β/(π mn) (from memory)
     beta = math.radians(15.0)
     g1 = gear_sizes(20, 2.0, RACK_A, beta=beta)
@@ -190,7 +192,7 @@ def test_form_radius_matches_generator():
         s = gear_sizes(z, 2.0, RACK_A, x)
         flank = generate_flank(z, s.rp, cutter_for(s, RACK_A), s.ra)
         assert form_radius(s, RACK_A) == pytest.approx(flank.r_junction, abs=1e-5)
-    # z 14 unshifted is undercut (z_min 17.1 at 20°, references.md doc): no closed form
+    # z 14 unshifted is undercut (z_min = 2/sin²α = 17.1 at 20°, from memory; computed): no closed form
     assert form_radius(gear_sizes(14, 2.0, RACK_A), RACK_A) is None
 
 

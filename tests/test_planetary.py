@@ -33,7 +33,7 @@ def _codes(s):
 
 def test_ring_held_sun_in_ratio_five():
     # sun 12 / planets 18 / ring 48: ring held, sun in, carrier out → i = 1 + 48/12 = 5
-    # (computed, Willis; shared reference)
+    # (Willis equation, from memory; computed)
     assert willis_ratio(12, 48, "ring", "sun", "carrier") == pytest.approx(1 + 48 / 12)
     # carrier held: i = −zr/zs = −4; sun held, ring in: (1 + k)/k = 1.25 (computed, Willis)
     assert willis_ratio(12, 48, "carrier", "sun", "ring") == pytest.approx(-4.0)
@@ -42,7 +42,7 @@ def test_ring_held_sun_in_ratio_five():
 
 @pytest.mark.parametrize("held", ["sun", "ring", "carrier"])
 def test_every_arrangement_satisfies_willis(held):
-    # (ωs − ωc) = −(zr/zs)(ωr − ωc), Willis (shared reference), checked on the solved speeds
+    # (ωs − ωc) = −(zr/zs)(ωr − ωc), Willis (from memory), checked on the solved speeds
     zs, zr = 17, 61
     for driver in {"sun", "ring", "carrier"} - {held}:
         w = member_speeds(zs, zr, held, driver, 3.7)
@@ -53,7 +53,7 @@ def test_every_arrangement_satisfies_willis(held):
 # --- centre distances --------------------------------------------------------------------------
 
 def test_working_distance_against_shifted_reference_pair():
-    # shared reference (computed): m 2, z 12/30, x +0.4/+0.2 → aw 43.100 mm
+    # ISO 21771 working center distance (from memory; computed): m 2, z 12/30, x +0.4/+0.2 → aw 43.100 mm
     assert working_distance(12, 30, 0.4, 0.2, 2.0, A20) == pytest.approx(43.100, abs=5e-4)
 
 

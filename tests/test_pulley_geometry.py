@@ -16,7 +16,7 @@ INCH = 25.4
 CHORD = 0.005
 
 
-# Pitch and a per side: references.md (ISO 5296 from memory; DIN 7721 from memory, medium
+# Pitch and a per side: ISO 5296 (from memory); DIN 7721 (from memory, medium
 # confidence; curvilinear: common practice).
 @pytest.mark.parametrize("name,p,a", [
     ("MXL", 2.032, 0.254), ("XL", 5.080, 0.254), ("L", 9.525, 0.381), ("H", 12.700, 0.686),

@@ -1,8 +1,10 @@
-"""Random valid parameter sets: each validates and exports, or is refused with a named finding."""
+"""Random valid parameter sets: each is refused exactly when closed forms say it must be, with
+the finding that names the reason, and otherwise validates and exports."""
 
 import math
 
-from hypothesis import HealthCheck, given, settings
+import pytest
+from hypothesis import HealthCheck, assume, example, given, settings
 from hypothesis import strategies as st
 
 from gen.geometry.modules import SERIES_I, SERIES_II
@@ -29,18 +31,73 @@ def gear_params(draw):
     return values
 
 
+# ISO 53:1998 basic rack dedendum h_fP / m (from memory): 1.25 for A, B, C; 1.40 for D
+DEDENDUM = {"A": 1.25, "B": 1.25, "C": 1.25, "D": 1.40}
+
+
+def _inv(a):
+    return math.tan(a) - a
+
+
+def expected_refusals(values, beta_deg=0.0):
+    """(codes, margin): the error codes closed forms predict for a cylindrical gear, and how
+    far (in modules) the nearest decision is from its threshold.
+
+    Transverse section (ISO 21771, from memory): mt = mn / cos β, tan αt = tan αn / cos β,
+    d = z mt, da = d + 2 mn (1 + x), df = d − 2 mn (h_fP* − x), db = d cos αt,
+    s = mt (π/2 + 2 x tan αn) − thinning. Tip thickness of an involute tooth (ISO 21771 /
+    Niemann–Winter, from memory): s_a = da (s/d + inv αt − inv αa), cos αa = db/da; ≤ 0 is a
+    pointed tooth. A bore at or beyond the root circle leaves no rim (geometry, computed).
+    """
+    mn, z, x = values["module"], values["teeth"], values["profile_shift"]
+    an, beta = math.radians(values["pressure_angle"]), math.radians(beta_deg)
+    mt = mn / math.cos(beta)
+    at = math.atan(math.tan(an) / math.cos(beta))
+    d = z * mt
+    da, db = d + 2 * mn * (1 + x), d * math.cos(at)
+    df = d - 2 * mn * (DEDENDUM[values["profile"]] - x)
+    s = mt * (math.pi / 2 + 2 * x * math.tan(an)) - values["backlash_allowance"]
+    s_a = da * (s / d + _inv(at) - _inv(math.acos(db / da)))
+    codes, margin = set(), abs(s_a) / mn
+    if s_a <= 0:
+        codes.add("pointed-tip")
+        return codes, margin       # a pointed tooth has no outline: nothing else is measured
+    if "bore" in values:
+        gap = df / 2 - values["bore"] / 2
+        margin = min(margin, abs(gap) / mn)
+        if gap <= 0:
+            codes.add("bore-too-big")
+    return codes, margin
+
+
 def _model(values):
     raw = RawPart(name="g", kind="spur_gear", values=values, file="random.yaml", train=None,
                   lines={None: 1})
     return resolve(raw)
 
 
-@settings(max_examples=60, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+def _spur(**kw):
+    return {"module": 2.0, "teeth": 10, "profile_shift": 0.0, "pressure_angle": 20.0,
+            "profile": "A", "face_width": 6.0, "backlash_allowance": 0.0, **kw}
+
+
+# Random draws seldom reach a refusal, so both sides of each threshold are also given as
+# examples. m 2, z 10, 20°: the tip comes to a point at x ≈ 0.700 (computed by bisection on
+# the s_a closed form) → x 0.67 builds, x 0.73 is pointed; m 2, z 20, A: root diameter
+# df = 40 − 5 = 35 mm (computed) → bore 34 builds, bore 36 is refused.
+@settings(max_examples=60, deadline=None, derandomize=True,
+          suppress_health_check=[HealthCheck.too_slow])
 @given(gear_params())
+@example(_spur(profile_shift=0.67))
+@example(_spur(profile_shift=0.73))
+@example(_spur(teeth=20, bore=34.0))
+@example(_spur(teeth=20, bore=36.0))
 def test_random_gear_validates_or_is_refused(values):
+    want, margin = expected_refusals(values)
+    assume(margin > 0.01)          # too close to a threshold for the sampled outline to decide
     model = _model(values)  # a ParamError here would fail the test: all values are in range
-    if has_errors(model.findings):
-        assert all(f.code and f.message for f in model.findings)
+    assert {f.code for f in model.findings if f.severity == "error"} == want
+    if want:
         return
     mesh = body_triangles(model.shape, model.chord_tol)
     assert mesh.is_watertight and mesh.volume > 0
@@ -50,18 +107,32 @@ def test_random_gear_validates_or_is_refused(values):
         assert not has_errors(check(lambda z: slice_polygons(mesh, z)))
 
 
-@settings(max_examples=8, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@settings(max_examples=8, deadline=None, derandomize=True,
+          suppress_health_check=[HealthCheck.too_slow])
 @given(gear_params())
 def test_random_gear_solid_is_valid(values):
+    want, margin = expected_refusals(values)
+    assume(not want and margin > 0.01)    # only gears the closed forms accept
     model = _model(values)
-    if has_errors(model.findings):
-        return
+    assert not has_errors(model.findings)
     from gen.solid.prism import body_solid
 
     solid = body_solid(model.shape)
     assert solid.isValid()
     mesh = body_triangles(model.shape, model.chord_tol)
     assert math.isclose(solid.Volume(), mesh.volume, rel_tol=5e-3)
+
+
+@pytest.mark.xfail(strict=True, reason="known: generator/measure edge case, thickness on d off "
+                   "by 0.96 µm (tolerance 0.6 µm) at exactly x = 0.7; x 0.69 and 0.71 are 6 nm off")
+def test_spur_gear_at_an_exact_shift_is_not_refused():
+    # Found by the random test above: m 0.3, z 133, x 0.7, 25°, profile B builds by every
+    # closed form (no pointed tip, no bore), yet is refused with size-mismatch. Strict xfail:
+    # when the cause is fixed this passes and the marker must go.
+    values = _spur(module=0.3, teeth=133, profile_shift=0.7, pressure_angle=25.0,
+                   profile="B", face_width=0.9)
+    assert expected_refusals(values)[0] == set()
+    assert {f.code for f in _model(values).findings if f.severity == "error"} == set()
 
 
 @st.composite
@@ -72,15 +143,22 @@ def helical_params(draw):
     return draw(st.sampled_from(["helical_gear", "herringbone_gear"])), values
 
 
-@settings(max_examples=25, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+# helical, mn 2, z 6, β 15°, 20°: the tip points at x ≈ 0.482 (computed by bisection on the
+# closed form) → x 0.45 builds, x 0.52 is refused
+@settings(max_examples=25, deadline=None, derandomize=True,
+          suppress_health_check=[HealthCheck.too_slow])
 @given(helical_params())
+@example(("helical_gear", _spur(teeth=6, profile_shift=0.45, helix_angle=15.0, hand="right")))
+@example(("herringbone_gear", _spur(teeth=6, profile_shift=0.52, helix_angle=15.0, hand="left")))
 def test_random_helical_gear_validates_or_is_refused(kind_values):
     kind, values = kind_values
     raw = RawPart(name="h", kind=kind, values=values, file="random.yaml", train=None,
                   lines={None: 1})
+    want, margin = expected_refusals(values, values["helix_angle"])
+    assume(margin > 0.01)
     model = resolve(raw)
-    if has_errors(model.findings):
-        assert all(f.code and f.message for f in model.findings)
+    assert {f.code for f in model.findings if f.severity == "error"} == want
+    if want:
         return
     from gen.triangles.prism import slice_polygons
 

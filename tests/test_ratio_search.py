@@ -2,7 +2,7 @@
 
 Sources: speed ratio of a pair i = z2/z1 and of a train the product of its stages (common
 practice); planetary stage with the ring held i = 1 + zr/zs, zr = zs + 2zp, (zs + zr)/N whole
-(references.md, memory; the 12/18/48 → 5 example is computed there); the hunting-tooth
+(Willis and the coaxial and spacing conditions, from memory; 12/18/48 → 5 computed); the hunting-tooth
 preference for pairs without a common factor (common practice); continued-fraction convergents
 of π, 3, 22/7, 333/106, 355/113 (from memory). Every expected ratio is recomputed here with
 exact fractions from the returned tooth counts, and a brute-force enumeration written
@@ -141,7 +141,7 @@ def test_pairs_without_common_factor_are_preferred():
 def test_planetary_stage_rules():
     lim = SearchLimits(min_teeth=12, max_teeth=100, planets=3)
     res = search_ratio(5, max_stages=1, kinds=("planetary",), limits=lim, count=5)
-    # references.md: sun 12, planets 18, ring 48, N 3 → i 5 (computed)
+    # Willis, ring held (from memory): sun 12, planets 18, ring 48, N 3 → i = 1 + 48/12 = 5 (computed)
     assert res.best.stages[0].teeth == (12, 18, 48) and res.best.exact
     for sol in res.solutions:
         zs, zp, zr = sol.stages[0].teeth
@@ -196,7 +196,7 @@ def test_written_file_parses_checks_and_keeps_the_ratio(tmp_path):
         a, b = mesh["parts"]
         r *= Fraction(parts[b]["teeth"], parts[a]["teeth"])
     assert r == 37
-    # undercut: x ≥ 1 − z sin²α/2 (references.md, doc) for every gear under 17 teeth
+    # undercut: x ≥ 1 − z sin²α/2 (rack generation, from memory) for every gear under 17 teeth
     for p in parts.values():
         x_min = 1 - p["teeth"] * math.sin(math.radians(20)) ** 2 / 2
         assert p.get("profile_shift", 0.0) >= x_min - 1e-12

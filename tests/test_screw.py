@@ -16,7 +16,7 @@ from gen.geometry.section import signed_area
 T15 = math.tan(math.radians(15.0))
 
 
-# ISO 2904 basic dimensions (shared references, from memory): Tr 8×2 d2 7.0 d3 5.5;
+# ISO 2904 basic dimensions (from memory): Tr 8×2 d2 7.0 d3 5.5;
 # Tr 10×2 d2 9.0 d3 7.5; Tr 12×3 d2 10.5 d3 8.5. D1 = d − P, D4 = d + 2 a_c (computed).
 @pytest.mark.parametrize("d,p,d2,d3,D1,D4", [
     (8, 2, 7.0, 5.5, 6.0, 8.5), (10, 2, 9.0, 7.5, 8.0, 10.5), (12, 3, 10.5, 8.5, 9.0, 12.5)])
@@ -37,7 +37,7 @@ def test_iso2904_basic_dimensions(d, p, d2, d3, D1, D4):
 
 
 def test_crest_clearance_table_and_gaps():
-    # ISO 2904 (shared references, from memory)
+    # ISO 2904 (from memory)
     assert [trapezoidal_crest_clearance(p) for p in (1.5, 2, 5, 6, 12, 14, 40)] == \
         [0.15, 0.25, 0.25, 0.5, 0.5, 1.0, 1.0]
     for p in (1.0, 1.75, 5.5, 13):

@@ -26,7 +26,8 @@ def _gear(z, m=2.0):
 
 def test_teeth_for_a_swing():
     # computed: z 40, swing 45° → 45·40/360 = 5 pitches pass the pitch point; with ε_α 1.635
-    # (m 2, z 20/40, shared references) N ≥ 5 + 1.635 − ½ → 7, one margin tooth each end → 9
+    # (m 2, z 20/40; line of action, from memory; computed) N ≥ 5 + 1.635 − ½ → 7,
+    # one margin tooth each end → 9
     st = sector_teeth(40, math.radians(45), 1.635, margin=1)
     assert st.engaged == pytest.approx(5.0, rel=1e-12)
     # the same by arc length: r_p Σ / (π m) with r_p = z m / 2
@@ -123,7 +124,7 @@ def test_full_gears_average_the_contact_ratio():
     g1, _ = _gear(20)
     g2, _ = _gear(40)
     eps = mesh_pair(g1, g2).contact_ratio
-    assert eps == pytest.approx(1.635, abs=5e-4)  # shared references (computed)
+    assert eps == pytest.approx(1.635, abs=5e-4)  # line of action (from memory; computed)
     # over whole pitches, evenly sampled, the mean number of pairs in contact is ε_α
     # (common practice: ε_α is the average number of tooth pairs in contact)
     swing = 6 * 2 * math.pi / 20

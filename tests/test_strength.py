@@ -22,7 +22,7 @@ HP = 745.69987158227      # W per mechanical horsepower, 550 ft·lbf/s
 FPM = 0.3048 / 60.0       # m/s per ft/min
 
 
-# --- Shigley, Mechanical Engineering Design, Example 14-1 (from memory, shared references):
+# --- Shigley, Mechanical Engineering Design, Example 14-1 (from memory):
 # P 8 teeth/in, F 1.5 in, 16 teeth, 20°, 1200 rpm, σ_all 10 kpsi → d 2 in, V 628 ft/min,
 # Kv 1.52 (cut teeth, (1200+V)/1200), Y 0.296, Wt 365 lbf, H 6.95 hp.
 EX_M = IN / 8.0
