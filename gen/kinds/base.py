@@ -39,6 +39,11 @@ KINDS = {
     "miter_gear": "miter_gear",
     "timing_pulley": "timing_pulley",
     "fit_coupon": "coupon",
+    # issue 15
+    "sector_gear": "sector_gear",
+    "lead_screw": "lead_screw",
+    "screw_nut": "screw_nut",
+    "cable_drum": "cable_drum",
 }
 
 
