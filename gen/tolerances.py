@@ -32,6 +32,11 @@ class Limits:
 
     #: least transverse contact ratio of a pair (common practice)
     min_contact_ratio: float = 1.1
+    # issue 15: power screws (common practice)
+    #: Euler buckling load over the axial load the screw is to carry, at least
+    screw_buckling_safety: float = 2.0
+    #: largest share of the first critical (whirling) speed a screw may run at
+    screw_whirl_fraction: float = 0.8
 
 
 TOL = Tolerances()
