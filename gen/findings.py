@@ -119,6 +119,24 @@ CODES = {
     "coupon-steps": "what the coupon holds",
     "coupon-reading": "how to read the coupon",
     "piece-missing": "a coupon piece was not found where the layout puts it",
+    # issue 15: sector gears, lead screws and nuts, cable drums
+    "sector-teeth": "how a sector's tooth count follows from its swing",
+    "sector-swing": "the swing a sector pair is checked over",
+    "sector-contact": "tooth pairs in contact over a sector pair's swing",
+    "sector-contact-lost": "a sector pair loses contact inside its swing",
+    "sector-contact-thin": "a sector pair has fewer pairs in contact than full gears somewhere in its swing",
+    "sector-stops": "where a sector pair's teeth run out (hard stops)",
+    "thread-sizes": "basic sizes of a screw thread",
+    "thread-measure": "a thread measured on the section or the triangles differs from its sizes",
+    "screw-drive": "lead, efficiency, torques and speed of a power screw",
+    "self-locking": "whether the load can drive the screw back",
+    "screw-buckling": "Euler buckling load of the screw against the stated load",
+    "screw-whirl": "critical (whirling) speed of the screw against the stated speed",
+    "nut-fit": "clearance and play of a printed nut on its screw",
+    "drum-sizes": "groove, turns and length of a cable drum",
+    "drum-ratio": "drum-to-cable diameter ratio against the cable's minimum",
+    "capstan": "holding ratio of the dead turns (Euler-Eytelwein)",
+    "cable-drive": "cable tension and joint ratio of a drum drive",
 }
 
 

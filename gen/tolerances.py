@@ -46,6 +46,11 @@ class Limits:
     #: least wall (mm) around a mounting hole in a printed rim (common practice: ≥ 2–3 lines
     #: of a 0.4 mm nozzle) — issue 14
     min_wall: float = 1.0
+    # issue 15: power screws (common practice)
+    #: Euler buckling load over the axial load the screw is to carry, at least
+    screw_buckling_safety: float = 2.0
+    #: largest share of the first critical (whirling) speed a screw may run at
+    screw_whirl_fraction: float = 0.8
 
 
 TOL = Tolerances()

@@ -21,6 +21,7 @@ from gen.validate.pair_basic import basic_pair_findings
 from gen.validate.pair_checks import pair_findings
 from gen.validate.strength import MATERIALS
 from gen.validate.sweep import sweep_pair, sweep_rack
+from gen.check.sector_pairs import check_sector_pair, is_sector
 
 MESH_KEYS = (
     Key("parts", "list", REQUIRED, item="str", count=2, doc="the two parts in engagement"),
@@ -77,6 +78,8 @@ def check_cylindrical_pair(label, names, a, b, v):
     """(findings, numbers, picture-inputs) for two cylindrical gears or a gear and a rack."""
     if a.role is Role.RACK:
         a, b = b, a
+    if b.role is not Role.RACK and (is_sector(a) or is_sector(b)):  # issue 15
+        return check_sector_pair(label, names, a, b, v, strength=strength_of_pair)
     ta, tb = a.mate, b.mate
     found = basic_pair_findings(label, a.name, ta, b.name, tb)
     if found:

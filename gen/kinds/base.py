@@ -40,6 +40,11 @@ KINDS = {
     "timing_pulley": "timing_pulley",
     "fit_coupon": "coupon",
     "ring_gear": "ring_gear",
+    # issue 15
+    "sector_gear": "sector_gear",
+    "lead_screw": "lead_screw",
+    "screw_nut": "screw_nut",
+    "cable_drum": "cable_drum",
 }
 
 
