@@ -91,6 +91,13 @@ CODES = {
     "coupon-steps": "what the coupon holds",
     "coupon-reading": "how to read the coupon",
     "piece-missing": "a coupon piece was not found where the layout puts it",
+    # flywheels and rotors (issue 16)
+    "rotor-cautions": "stored energy, containment, creep, speed and review cautions of a rotor",
+    "rotor-sizing": "how a rotor's rim was sized for its target",
+    "rotor-overspeed": "the rotor's speed is above its burst estimate",
+    "rotor-margin": "the rotor's safety factor at its speed is below the stated least",
+    "rotor-stress-method": "how a rotor's peak stress was estimated and what is left out",
+    "mass-mismatch": "mass properties measured on the triangles differ from the section's",
 }
 
 

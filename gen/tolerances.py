@@ -24,6 +24,9 @@ class Tolerances:
     #: added to the chord tolerance when sizes are measured on slices of exported triangles
     #: (slicing and polygon measurement round-off, mm)
     slice_extra: float = 2e-3
+    #: relative float round-off allowed on top of the chord-tolerance bound when a rotor's mass
+    #: properties are measured on slices of its exported triangles (issue 16)
+    rotor_slice_rel: float = 1e-6
 
 
 @dataclass(frozen=True)
@@ -32,6 +35,9 @@ class Limits:
 
     #: least transverse contact ratio of a pair (common practice)
     min_contact_ratio: float = 1.1
+    #: least strength / peak stress of a spinning rotor before a warning (issue 16; common
+    #: practice for rotating parts designed on yield, the part's own key can raise it)
+    rotor_safety_factor: float = 2.0
 
 
 TOL = Tolerances()

@@ -21,6 +21,7 @@ class CheckResult:
     pairs: list = field(default_factory=list)       # per-mesh result dicts
     drives: list = field(default_factory=list)      # per-belt-drive result dicts
     assemblies: list = field(default_factory=list)  # gen.assemblies.bevel_differential.Assembly
+    rotors: list = field(default_factory=list)      # per-entry dicts of gen.check.rotors
 
     @property
     def ok(self) -> bool:
@@ -63,8 +64,10 @@ def check(paths) -> CheckResult:
     from gen.check.assemblies import check_assemblies
     from gen.check.drives import check_drives
     from gen.check.meshes import check_meshes
+    from gen.check.rotors import check_rotors
 
     check_assemblies(result)
     check_meshes(result)
     check_drives(result)
+    check_rotors(result)
     return result

@@ -77,6 +77,7 @@ def json_doc(result) -> dict:
                         "kinematics": a.kinematics,
                         "status": "error" if any(f.severity == "error" for f in a.findings) else "ok"}
                        for a in result.assemblies],
+        "rotors": result.rotors,
         "findings": [f.as_dict() for f in result.findings],
     }
 
@@ -109,9 +110,10 @@ def run(args) -> int:
         return 0 if result.ok else 1
     print(f"checked {result_summary(result)}")
     from gen.check.drives import drive_table
+    from gen.check.rotors import rotor_lines
 
     for line in mesh_table(result.pairs) + drive_table(result.drives) + \
-            assembly_lines(result.assemblies):
+            assembly_lines(result.assemblies) + rotor_lines(result.rotors):
         print(line)
     print_findings(result.findings, show_info=args.verbose)
     if args.report:

@@ -39,6 +39,7 @@ KINDS = {
     "miter_gear": "miter_gear",
     "timing_pulley": "timing_pulley",
     "fit_coupon": "coupon",
+    "flywheel": "flywheel",
 }
 
 

@@ -25,7 +25,7 @@ from gen.params.yamlio import Doc, InputError, load_file
 #: tooth-system keys a train gives once for all its parts
 TRAIN_SHARED = ("module", "pressure_angle", "helix_angle", "profile", "module_basis")
 #: top-level sections and who reads them
-SECTIONS = ("parts", "trains", "meshes", "assemblies", "drives", "fits")
+SECTIONS = ("parts", "trains", "meshes", "assemblies", "drives", "fits", "rotors")
 NAME_RE = re.compile(r"^[A-Za-z0-9][A-Za-z0-9_.-]{0,63}$")
 RESERVED = {"manifest", "report", "plate", "con", "prn", "aux", "nul"}
 
@@ -194,7 +194,7 @@ def _read_doc(doc: Doc, proj: RawProject):
                              line=doc.line("trains", tname))
         for name, body in parts.items():
             _add_part(proj, doc, name, body, ("trains", tname, "parts", name), tname, shared)
-    for section in ("meshes", "assemblies", "drives"):
+    for section in ("meshes", "assemblies", "drives", "rotors"):
         if section not in data or data[section] is None:
             continue
         value = data[section]
