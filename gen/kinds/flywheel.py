@@ -65,7 +65,7 @@ KEYS = (
     Key("bore", "float", 0.0, lo=0, hi=5000, unit="mm", doc="hole along the axis (0: none)"),
     Key("layout", "enum", "disc", choices=("disc", "rim_web"),
         doc="plain disc, or a rim joined to a hub by a thinner web"),
-    Key("rim_width", "float", None, lo=0, hi=2500, unit="mm",
+    Key("rim_width", "float", None, lo=0, hi=2500, lo_open=True, unit="mm",
         doc="radial width of the rim (rim_web; omit when a target sizes it)"),
     Key("web_thickness", "float", None, lo=0, hi=2000, lo_open=True, unit="mm",
         doc="axial thickness of the web (rim_web)"),
