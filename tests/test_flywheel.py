@@ -384,3 +384,17 @@ def test_demo_rotor_is_sized_and_safe(demo_triangles):
     assert s["safety_factor"] > 2
     assert {r["name"] for r in res.rotors} == {"righting", "steering_gyro"}
     assert np.isfinite(s["spin_up_time"])
+
+
+def test_rim_web_hub_against_sum_of_annuli(write_yaml):
+    # computed: the section split by hand into three rings — rim r 50…60 × 20 mm, web r 4…50
+    # × 4 mm (centred, z 8…12), hub r 4…10 from hub_offset 12 to the far face (8 mm) — each
+    # I = ½ m (r₁² + r₂²) (standard)
+    _, part = one(write_yaml(RIM % ("steel", "rim_width: 10\n    hub_offset: 12")))
+    rings = [(50, 60, 20), (4, 50, 4), (4, 10, 8)]
+    m = sum(STEEL * math.pi * (b * b - a * a) * t * 1e-9 for a, b, t in rings)
+    i = sum(ring_inertia(a, b, t) for a, b, t in rings)
+    assert part.sizes["mass"] == pytest.approx(m, rel=1e-12)
+    assert part.sizes["inertia_axial"] == pytest.approx(i, rel=1e-12)
+    msg = refused(write_yaml(RIM % ("steel", "rim_width: 10\n    hub_offset: 20"), "h.yaml"))
+    assert "key 'hub_offset'" in msg

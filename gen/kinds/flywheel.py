@@ -74,7 +74,7 @@ KEYS = (
     Key("hub_diameter", "float", None, lo=0, hi=5000, lo_open=True, unit="mm",
         doc="outer diameter of the hub (rim_web)"),
     Key("hub_length", "float", None, lo=0, hi=2000, lo_open=True, unit="mm",
-        doc="axial length of the hub (default: the thickness)"),
+        doc="axial length of the hub (default: from hub_offset to the far face)"),
     Key("hub_offset", "float", 0.0, lo=0, hi=2000, unit="mm",
         doc="height of the hub's lower face above z = 0"),
     Key("pocket", "map", None, sub=(
@@ -124,7 +124,9 @@ def _rotor(values, rim_width) -> Rotor:
                      holes=holes)
     return Rotor(v["outer_diameter"], v["thickness"], bore=v["bore"], rim_width=rim_width,
                  web_thickness=v["web_thickness"], hub_diameter=v["hub_diameter"],
-                 hub_length=v["hub_length"], hub_offset=v["hub_offset"],
+                 hub_length=(v["hub_length"] if v["hub_length"] is not None
+                             else v["thickness"] - v["hub_offset"]),
+                 hub_offset=v["hub_offset"],
                  web_offset=v["web_offset"], pocket=pocket, holes=holes)
 
 
@@ -148,6 +150,10 @@ def _layout_keys(values, where) -> None:
     for k in ("web_thickness", "hub_diameter"):
         if v[k] is None:
             raise where.error(k, "is required for layout: rim_web")
+    if v["hub_length"] is None and v["hub_offset"] >= v["thickness"]:
+        raise where.error("hub_offset", "leaves no hub inside the thickness: give hub_length "
+                          "for a hub standing out of the rotor", v["hub_offset"],
+                          f"< thickness {v['thickness']:g} mm")
     t = v["target"]
     if t is None and v["rim_width"] is None:
         raise where.error("rim_width", "give rim_width, or a target to size the rim for")
