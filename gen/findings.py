@@ -137,6 +137,13 @@ CODES = {
     "drum-ratio": "drum-to-cable diameter ratio against the cable's minimum",
     "capstan": "holding ratio of the dead turns (Euler-Eytelwein)",
     "cable-drive": "cable tension and joint ratio of a drum drive",
+    # flywheels and rotors (issue 16)
+    "rotor-cautions": "stored energy, containment, creep, speed and review cautions of a rotor",
+    "rotor-sizing": "how a rotor's rim was sized for its target",
+    "rotor-overspeed": "the rotor's speed is above its burst estimate",
+    "rotor-margin": "the rotor's safety factor at its speed is below the stated least",
+    "rotor-stress-method": "how a rotor's peak stress was estimated and what is left out",
+    "mass-mismatch": "mass properties measured on the triangles differ from the section's",
 }
 
 

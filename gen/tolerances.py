@@ -24,6 +24,9 @@ class Tolerances:
     #: added to the chord tolerance when sizes are measured on slices of exported triangles
     #: (slicing and polygon measurement round-off, mm)
     slice_extra: float = 2e-3
+    #: relative float round-off allowed on top of the chord-tolerance bound when a rotor's mass
+    #: properties are measured on slices of its exported triangles (issue 16)
+    rotor_slice_rel: float = 1e-6
 
 
 @dataclass(frozen=True)
@@ -51,6 +54,9 @@ class Limits:
     screw_buckling_safety: float = 2.0
     #: largest share of the first critical (whirling) speed a screw may run at
     screw_whirl_fraction: float = 0.8
+    #: least strength / peak stress of a spinning rotor before a warning (issue 16; common
+    #: practice for rotating parts designed on yield, the part's own key can raise it)
+    rotor_safety_factor: float = 2.0
 
 
 TOL = Tolerances()

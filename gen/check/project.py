@@ -25,6 +25,7 @@ class CheckResult:
     #: name -> how to make the part again elsewhere (picklable): ("part", raw, fits) or
     #: ("assembly", entry, name); used by cluster builds
     recipes: dict = field(default_factory=dict)
+    rotors: list = field(default_factory=list)      # per-entry dicts of gen.check.rotors
 
     @property
     def ok(self) -> bool:
@@ -73,6 +74,7 @@ def check_project(project: RawProject) -> CheckResult:
     from gen.check.assemblies import check_assemblies
     from gen.check.drives import check_drives
     from gen.check.meshes import check_meshes
+    from gen.check.rotors import check_rotors
 
     check_assemblies(result)
     check_meshes(result)
@@ -80,6 +82,8 @@ def check_project(project: RawProject) -> CheckResult:
     from gen.check.drivetrains import check_drivetrains
 
     check_drivetrains(result)
+
+    check_rotors(result)
     return result
 
 
@@ -127,8 +131,9 @@ def apply_auto_tip_shortening(result, fits) -> None:
         raw = result.project.parts[n]
         k, label = ks.get(n, (0.0, ""))
         old = result.models[n]
+        fixed = replace(raw, values={**raw.values, "tip_shortening": k})
         try:
-            model = resolve(replace(raw, values={**raw.values, "tip_shortening": k}), fits)
+            model = resolve(fixed, fits)
         except ParamError as exc:
             result.findings.append(_param_finding(exc))
             continue
@@ -143,3 +148,4 @@ def apply_auto_tip_shortening(result, fits) -> None:
                             sizes={**model.sizes, "tip_shortening_from": label or None})
         result.findings = [f for f in result.findings if f not in old.findings] + list(found)
         result.models[n] = model
+        result.recipes[n] = ("part", fixed, fits)

@@ -108,6 +108,7 @@ def json_doc(result) -> dict:
         "drivetrains": [{"name": d.name, **d.numbers,
                          "status": "error" if any(f.severity == "error" for f in d.findings)
                          else "ok"} for d in result.drivetrains],
+        "rotors": result.rotors,
         "findings": [f.as_dict() for f in result.findings],
     }
 
@@ -140,9 +141,11 @@ def run(args) -> int:
         return 0 if result.ok else 1
     print(f"checked {result_summary(result)}")
     from gen.check.drives import drive_table
+    from gen.check.rotors import rotor_lines
 
     for line in mesh_table(result.pairs) + drive_table(result.drives) + \
-            assembly_lines(result.assemblies) + drivetrain_lines(result.drivetrains):
+            assembly_lines(result.assemblies) + drivetrain_lines(result.drivetrains) + \
+            rotor_lines(result.rotors):
         print(line)
     print_findings(result.findings, show_info=args.verbose)
     if args.report:

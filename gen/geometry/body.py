@@ -328,3 +328,97 @@ def _overlap(p: np.ndarray, q: np.ndarray, gap: float) -> bool:
     if _boundary_gap(p, q) < gap:
         return True
     return _contains_point(q, p[0]) or _contains_point(p, q[0])
+
+
+# --------------------------------------------------------------------------- solids of revolution
+@dataclass(frozen=True, eq=False)
+class HoleCircle:
+    """``count`` axial through-holes of ``diameter`` (mm) equally spaced on a circle of
+    ``circle_radius`` (mm) about the Z axis, hole 0 at polar angle ``angle`` (rad) from +X."""
+
+    count: int
+    diameter: float
+    circle_radius: float
+    angle: float = 0.0
+
+    def __post_init__(self):
+        if int(self.count) != self.count or self.count < 1:
+            raise GeometryError(f"hole count must be a whole number ≥ 1, got {self.count!r}")
+        if not (self.diameter > 0 and self.circle_radius >= 0):
+            raise GeometryError("hole diameter must be > 0 and its circle radius ≥ 0 mm")
+
+    def centers(self) -> np.ndarray:
+        """(count, 2) hole centres in mm."""
+        a = self.angle + 2.0 * math.pi * np.arange(self.count) / self.count
+        return self.circle_radius * np.column_stack([np.cos(a), np.sin(a)])
+
+
+@dataclass(frozen=True, eq=False)
+class Revolved:
+    """A solid of revolution about +Z, minus axial through-holes.
+
+    Parameters
+    ----------
+    profile : (n, 2) array_like
+        The closed half-section in the (r, z) plane (mm), r ≥ 0, the last vertex joining
+        the first (not repeated). Edges on r = 0 lie on the axis. Stored counter-clockwise.
+    holes : tuple of HoleCircle
+        Axial holes through the whole height of the body.
+
+    The builders approximate circles by inscribed regular polygons whose sagitta stays within
+    the chord tolerance: :meth:`segments`. For an inscribed n-gon of circumradius R,
+    θ = 2π/n, the area is n R² sin θ / 2 and the polar moment n R⁴ sin θ (2 + cos θ)/12
+    (computed: n triangles (0, P_i, P_i+1), each J = A (|a|² + |b|² + a·b)/6), so the ratios to
+    the circle's πR² and πR⁴/2 (:meth:`polygon_ratios`) do not depend on R: a revolved body of
+    n segments has exactly those ratios of volume and axial inertia.
+    """
+
+    profile: np.ndarray
+    holes: tuple = ()
+
+    #: shared builder that turns this description into triangles and a solid
+    builder: ClassVar[str] = "revolved"
+
+    def __post_init__(self):
+        p = np.asarray(self.profile, dtype=float)
+        if p.ndim != 2 or p.shape[1] != 2 or len(p) < 3 or not np.all(np.isfinite(p)):
+            raise GeometryError("a revolved profile needs at least 3 finite (r, z) points")
+        if np.any(p[:, 0] < 0.0):
+            raise GeometryError("a revolved profile must lie at r ≥ 0 (one side of the axis)")
+        a = signed_area(p)
+        if a == 0.0:
+            raise GeometryError("a revolved profile must enclose an area")
+        if a < 0.0:
+            p = p[::-1].copy()
+        p.setflags(write=False)
+        object.__setattr__(self, "profile", p)
+        object.__setattr__(self, "holes", tuple(self.holes))
+        for h in self.holes:
+            if not isinstance(h, HoleCircle):
+                raise GeometryError(f"revolved holes must be HoleCircle, got {type(h).__name__}")
+            if h.circle_radius + h.diameter / 2.0 >= self.r_max:
+                raise GeometryError("an axial hole reaches past the outer radius")
+
+    @property
+    def r_max(self) -> float:
+        return float(self.profile[:, 0].max())
+
+    @property
+    def z_range(self) -> tuple[float, float]:
+        return float(self.profile[:, 1].min()), float(self.profile[:, 1].max())
+
+    @staticmethod
+    def segments(radius: float, tol: float, least: int = 16) -> int:
+        """Sides n of the inscribed polygon of a circle of ``radius`` (mm) whose sagitta
+        R (1 − cos(π/n)) stays within ``tol`` (mm); at least ``least``, a multiple of 4."""
+        if not (radius > 0 and tol > 0):
+            raise GeometryError("segments need a radius and a chord tolerance > 0")
+        n = math.pi / math.acos(max(-1.0, 1.0 - tol / radius)) if tol < 2 * radius else 3
+        n = max(least, int(math.ceil(n - 1e-9)))
+        return 4 * int(math.ceil(n / 4))
+
+    @staticmethod
+    def polygon_ratios(n: int) -> tuple[float, float]:
+        """(area ratio, polar-moment ratio) of the inscribed regular n-gon to its circle."""
+        t = 2.0 * math.pi / n
+        return n * math.sin(t) / (2.0 * math.pi), n * math.sin(t) * (2.0 + math.cos(t)) / (6.0 * math.pi)

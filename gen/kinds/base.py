@@ -45,6 +45,7 @@ KINDS = {
     "lead_screw": "lead_screw",
     "screw_nut": "screw_nut",
     "cable_drum": "cable_drum",
+    "flywheel": "flywheel",
 }
 
 

@@ -26,9 +26,9 @@ from gen.params.yamlio import Doc, InputError, load_file
 TRAIN_SHARED = ("module", "pressure_angle", "helix_angle", "profile", "module_basis")
 #: top-level sections and who reads them
 SECTIONS = ("parts", "trains", "series", "meshes", "assemblies", "drives", "drivetrains",
-            "fits")
+            "fits", "rotors")
 #: sections whose entries are mappings, given as a list or by name
-ENTRY_SECTIONS = ("meshes", "assemblies", "drives", "drivetrains")
+ENTRY_SECTIONS = ("meshes", "assemblies", "drives", "drivetrains", "rotors")
 NAME_RE = re.compile(r"^[A-Za-z0-9][A-Za-z0-9_.-]{0,63}$")
 RESERVED = {"manifest", "report", "plate", "con", "prn", "aux", "nul"}
 

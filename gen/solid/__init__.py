@@ -13,6 +13,7 @@ import importlib
 BUILDERS = {
     "prism": ("gen.solid.prism", "body_solid"),
     "apex_ruled": ("gen.solid.bevel", "apex_solid"),
+    "revolved": ("gen.solid.revolved", "revolved_solid"),
 }
 
 

@@ -13,6 +13,7 @@ import importlib
 BUILDERS = {
     "prism": ("gen.triangles.prism", "body_triangles"),
     "apex_ruled": ("gen.triangles.bevel", "apex_triangles"),
+    "revolved": ("gen.triangles.revolved", "revolved_triangles"),
 }
 
 
