@@ -35,6 +35,8 @@ from gen.solid.kernel import KERNEL_TOL, SPLINE_FIT
 
 #: largest edge tolerance (mm) accepted between a flank edge and its pcurve on a cone
 APEX_EDGE_TOL = 1e-5
+#: points of the 3-D flank fit per sample interval (taken on the cone image of the pcurve)
+DENSE = 4
 
 
 class _Cone:
@@ -88,28 +90,44 @@ class _FlankCurve:
         o = bld.o
         seg = np.linalg.norm(np.diff(pts3, axis=0), axis=1)
         t = np.concatenate([[0.0], np.cumsum(seg)])
-        params = bld.reals(t)
-        f3 = o.GeomAPI_PointsToBSpline(_arr_pnt(o, pts3), params, 3, 3, o.GeomAbs_C2, SPLINE_FIT)
-        scale = float(np.mean(rho))  # fit θ as an arc length so the tolerance is in mm
+        # 1. the pcurve: θ (as an arc length, so the tolerance is in mm) and ρ against t
+        scale = float(np.mean(rho))
         uv = np.column_stack([theta * scale, rho])
-        f2 = o.Geom2dAPI_PointsToBSpline(_arr_pnt2d(o, uv), params, 3, 3, o.GeomAbs_C2,
-                                         SPLINE_FIT)
-        if not (f3.IsDone() and f2.IsDone()):
+        f2 = o.Geom2dAPI_PointsToBSpline(_arr_pnt2d(o, uv), bld.reals(t), 3, 3, o.GeomAbs_C2,
+                                         0.25 * SPLINE_FIT)
+        if not f2.IsDone():
             raise GeometryError("could not fit a B-spline through the bevel flank samples")
-        c3, c2 = f3.Curve(), f2.Curve()
+        c2 = f2.Curve()
+        n2, k2, m2 = _bspline_data(c2)
+        Q = np.array([[c2.Pole(i).X() / scale, c2.Pole(i).Y()] for i in range(1, n2 + 1)])
+        Q[0], Q[-1] = (theta[0], rho[0]), (theta[-1], rho[-1])
+        k2 = np.array(k2)  # the 2-D fit normalises the parameters to 0 … 1: map them back
+        k2 = t[0] + (k2 - k2[0]) / (k2[-1] - k2[0]) * (t[-1] - t[0])
+        self.uv_poles, self.uv_knots, self.uv_mults = Q, k2, m2
+        # 2. the 3-D curve: fitted to points of the cone image of the pcurve, DENSE times
+        # denser than the samples, so that between them it cannot leave the cone (a chord
+        # of the samples would, by the cone's normal curvature: ~1e-5 mm on small gears)
+        self.t = t
+        td = np.concatenate([t[:-1, None] + np.diff(t)[:, None] * np.arange(DENSE) / DENSE,
+                             t[-1:, None]], axis=None)
+        c2u = self.pcurve(bld)
+        uvd = np.array([[q.X(), q.Y()] for q in (c2u.Value(float(x)) for x in td)])
+        pd = back.point(uvd[:, 0], uvd[:, 1])
+        pd[0], pd[-1] = pts3[0], pts3[-1]
+        f3 = o.GeomAPI_PointsToBSpline(_arr_pnt(o, pd), bld.reals(td), 3, 3, o.GeomAbs_C2,
+                                       SPLINE_FIT)
+        if not f3.IsDone():
+            raise GeometryError("could not fit a B-spline through the bevel flank samples")
+        c3 = f3.Curve()
         n3, k3, m3 = _bspline_data(c3)
         P = np.array([[c3.Pole(i).X(), c3.Pole(i).Y(), c3.Pole(i).Z()] for i in range(1, n3 + 1)])
         if max(np.linalg.norm(P[0] - pts3[0]), np.linalg.norm(P[-1] - pts3[-1])) > SPLINE_FIT:
             raise GeometryError("the bevel flank fit moved a curve end")
         P[0], P[-1] = pts3[0], pts3[-1]
-        n2, k2, m2 = _bspline_data(c2)
-        Q = np.array([[c2.Pole(i).X() / scale, c2.Pole(i).Y()] for i in range(1, n2 + 1)])
-        Q[0], Q[-1] = (theta[0], rho[0]), (theta[-1], rho[-1])
-        self.poles, self.knots, self.mults = P, np.array(k3), m3
-        k2 = np.array(k2)  # the 2-D fit normalises the parameters to 0 … 1: map them back
-        k2 = t[0] + (k2 - k2[0]) / (k2[-1] - k2[0]) * (t[-1] - t[0])
-        self.uv_poles, self.uv_knots, self.uv_mults = Q, k2, m2
-        self.t = t
+        k3 = np.array(k3)
+        k3 = t[0] + (k3 - k3[0]) / (k3[-1] - k3[0]) * (t[-1] - t[0])
+        self.poles, self.knots, self.mults = P, k3, m3
+        self._td = td
         self.deviation = self._deviation(bld, back)
 
     def rotated(self, angle: float, start, end, theta0: float) -> "_FlankCurve":
@@ -139,7 +157,7 @@ class _FlankCurve:
     def _deviation(self, bld: Builder, back: _Cone) -> float:
         """Largest distance (mm) between the 3-D curve and the cone image of its pcurve."""
         c3, c2 = self.curve3d(bld), self.pcurve(bld)
-        ts = np.concatenate([self.t, 0.5 * (self.t[1:] + self.t[:-1])])
+        ts = np.concatenate([self._td, 0.5 * (self._td[1:] + self._td[:-1])])
         p3 = np.array([[q.X(), q.Y(), q.Z()] for q in (c3.Value(float(x)) for x in ts)])
         uv = np.array([[q.X(), q.Y()] for q in (c2.Value(float(x)) for x in ts)])
         return float(np.max(np.linalg.norm(p3 - back.point(uv[:, 0], uv[:, 1]), axis=1)))
