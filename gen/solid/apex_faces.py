@@ -88,6 +88,7 @@ class _FlankCurve:
     def __init__(self, bld: Builder, pts3: np.ndarray, theta: np.ndarray, rho: np.ndarray,
                  back: _Cone):
         o = bld.o
+        self._arr = []   # OCC knot arrays, filled on first use
         seg = np.linalg.norm(np.diff(pts3, axis=0), axis=1)
         t = np.concatenate([[0.0], np.cumsum(seg)])
         # 1. the pcurve: θ (as an arc length, so the tolerance is in mm) and ρ against t
@@ -110,7 +111,7 @@ class _FlankCurve:
         self.t = t
         td = np.concatenate([t[:-1, None] + np.diff(t)[:, None] * np.arange(DENSE) / DENSE,
                              t[-1:, None]], axis=None)
-        c2u = self.pcurve(bld)
+        c2u = o.Geom2d_BSplineCurve(_arr_pnt2d(o, Q), bld.reals(k2), bld.ints(m2), 3)
         uvd = np.array([[q.X(), q.Y()] for q in (c2u.Value(float(x)) for x in td)])
         pd = back.point(uvd[:, 0], uvd[:, 1])
         pd[0], pd[-1] = pts3[0], pts3[-1]
@@ -141,18 +142,28 @@ class _FlankCurve:
         new.poles, new.knots, new.mults = P, self.knots, self.mults
         new.uv_poles, new.uv_knots, new.uv_mults = Q, self.uv_knots, self.uv_mults
         new.t, new.deviation = self.t, self.deviation
+        new._arr = self._arr        # one list, filled on first use, shared by every copy
         return new
+
+    def arrays(self, bld: Builder):
+        """OCC knot and multiplicity arrays (made once, shared by the turned copies: the
+        kernel copies them into each curve)."""
+        if not self._arr:
+            self._arr.append((bld.reals(self.knots), bld.ints(self.mults),
+                          bld.reals(self.uv_knots), bld.ints(self.uv_mults)))
+        return self._arr[0]
 
     def curve3d(self, bld: Builder, apex=None, k: float = 1.0):
         o = bld.o
         P = self.poles if apex is None else apex + k * (self.poles - apex)
-        return o.Geom_BSplineCurve(_arr_pnt(o, P), bld.reals(self.knots), bld.ints(self.mults), 3)
+        K, M, _, _ = self.arrays(bld)
+        return o.Geom_BSplineCurve(_arr_pnt(o, P), K, M, 3)
 
     def pcurve(self, bld: Builder, k: float = 1.0):
         o = bld.o
         Q = self.uv_poles * np.array([1.0, k])
-        return o.Geom2d_BSplineCurve(_arr_pnt2d(o, Q), bld.reals(self.uv_knots),
-                                     bld.ints(self.uv_mults), 3)
+        _, _, K, M = self.arrays(bld)
+        return o.Geom2d_BSplineCurve(_arr_pnt2d(o, Q), K, M, 3)
 
     def _deviation(self, bld: Builder, back: _Cone) -> float:
         """Largest distance (mm) between the 3-D curve and the cone image of its pcurve."""
@@ -259,6 +270,7 @@ def apex_shell(sizes: BevelSizes, bore_radius: float, flank):
         rul.append(bld.edge(_segment(bld, starts[i], fpts[i], tol), vb[i], vf[i], 0.0, 1.0, tol))
 
     faces = []
+    v_knots, v_mults = bld.reals([0.0, 1.0]), bld.ints([2, 2])
     # --- lateral faces: ruled flanks, tip and root cones through the apex -----------------
     for i, c in enumerate(curves):
         j = (i + 1) % n
@@ -271,8 +283,8 @@ def apex_shell(sizes: BevelSizes, bore_radius: float, flank):
             for a in range(nu):
                 P.SetValue(a + 1, 1, o.gp_Pnt(*map(float, P0[a])))
                 P.SetValue(a + 1, 2, o.gp_Pnt(*map(float, P1[a])))
-            S = o.Geom_BSplineSurface(P, bld.reals(f.knots), bld.reals([0.0, 1.0]),
-                                      bld.ints(f.mults), bld.ints([2, 2]), 3, 1)
+            K, Mu, _, _ = f.arrays(bld)
+            S = o.Geom_BSplineSurface(P, K, v_knots, Mu, v_mults, 3, 1)
             u0, u1 = f.t[0], f.t[-1]
             bld.pcurve(eb[i], bld.iso_line(v=0.0), S)
             bld.pcurve(ef[i], bld.iso_line(v=1.0), S)
