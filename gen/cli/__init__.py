@@ -9,10 +9,41 @@ import argparse
 import importlib
 import sys
 
-COMMANDS = ("build", "check", "new", "belt", "ratio")
+#: command -> one-line help for the top-level ``--help``. The command's own module (which may
+#: import numpy and the rest) is imported only when that command is named on the line, so
+#: ``pitchline --help`` loads argparse and nothing else.
+COMMANDS = {
+    "build": "validate, then write STEP/STL files, a manifest and a report",
+    "check": "validate parameter files and every declared mesh (no CAD kernel)",
+    "new": "write a commented starter parameter file",
+    "belt": "open belt drive: belt length, center distance, wrap, teeth in mesh",
+    "ratio": "tooth counts for a wanted speed ratio over 1 to 3 stages",
+}
 
 
-def parser() -> argparse.ArgumentParser:
+class _Stub:
+    """Stands in for a command module that is not imported: registers a help-only parser."""
+
+    def __init__(self, name: str):
+        self.name = name
+
+    def register(self, sub):
+        sub.add_parser(self.name, help=COMMANDS[self.name], add_help=False)
+
+
+def _named_command(argv) -> str | None:
+    """The first word of ``argv`` that is a command (options before it are skipped)."""
+    for word in argv:
+        if word in COMMANDS:
+            return word
+        if not word.startswith("-"):
+            return None
+    return None
+
+
+def parser(argv=None) -> argparse.ArgumentParser:
+    """The top-level parser. Without ``argv`` every command module is imported (full
+    parsers); with it, only the command that ``argv`` names."""
     p = argparse.ArgumentParser(
         prog="pitchline",
         description="Parameter files to verified, printable gears, racks and pulleys. "
@@ -20,7 +51,11 @@ def parser() -> argparse.ArgumentParser:
     from gen import __version__
     p.add_argument("--version", action="version", version=f"pitchline {__version__}")
     sub = p.add_subparsers(dest="command", metavar="COMMAND")
+    wanted = None if argv is None else _named_command(argv)
     for name in COMMANDS:
+        if argv is not None and name != wanted:
+            _Stub(name).register(sub)
+            continue
         try:
             mod = importlib.import_module(f"gen.cli.{name}")
         except ModuleNotFoundError:
@@ -30,11 +65,12 @@ def parser() -> argparse.ArgumentParser:
 
 
 def main(argv=None) -> int:
+    argv = sys.argv[1:] if argv is None else list(argv)
+    p = parser(argv)
+    args = p.parse_args(argv)
     from gen.errors import ParamError, PitchlineError
     from gen.params.yamlio import InputError
 
-    p = parser()
-    args = p.parse_args(argv)
     if not getattr(args, "func", None):
         p.print_help()
         return 2

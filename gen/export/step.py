@@ -22,6 +22,9 @@ def step_bytes(shape, name: str, workdir: str) -> bytes:
     writer = STEPControl_Writer()  # first: it registers the static parameters set below
     Interface_Static.SetCVal_s("write.step.schema", "AP214IS")
     Interface_Static.SetCVal_s("write.step.product.name", name)
+    # edges as 3-D curves only: the 2-D curves of every edge on both its faces (pcurves) are
+    # half of a gear's file and readers recompute them (measured: 40-tooth spur 1.78 → 0.87 MB)
+    Interface_Static.SetIVal_s("write.surfacecurve.mode", 0)
     shapes = shape if isinstance(shape, (list, tuple)) else [shape]
     for s in shapes:
         if writer.Transfer(s.wrapped, STEPControl_AsIs) != IFSelect_RetDone:

@@ -49,10 +49,10 @@ class Builder:
         self.b.MakeVertex(v, self.o.gp_Pnt(float(x), float(y), float(z)), tol)
         return v
 
-    def edge(self, curve, v0, v1, t0, t1):
+    def edge(self, curve, v0, v1, t0, t1, tol: float = KERNEL_TOL):
         o, b = self.o, self.b
         e = o.TopoDS_Edge()
-        b.MakeEdge(e, curve, KERNEL_TOL)
+        b.MakeEdge(e, curve, tol)
         b.Add(e, v0.Oriented(o.TopAbs_FORWARD))
         b.Add(e, v1.Oriented(o.TopAbs_REVERSED))
         b.Range(e, float(t0), float(t1))

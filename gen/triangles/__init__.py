@@ -12,7 +12,7 @@ import importlib
 #: builder name -> (module, function(shape, chord_tolerance) -> trimesh.Trimesh)
 BUILDERS = {
     "prism": ("gen.triangles.prism", "body_triangles"),
-    "apex_ruled": ("gen.triangles.bevel", "apex_triangles"),
+    "apex_ruled": ("gen.triangles.apex", "apex_triangles"),
     "revolved": ("gen.triangles.revolved", "revolved_triangles"),
 }
 

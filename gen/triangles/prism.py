@@ -53,7 +53,10 @@ def _spline_polyline(points: np.ndarray, tol: float) -> np.ndarray:
     A chord of length ℓ over a curve of curvature κ has sagitta κ ℓ²/8, so the curve needs
     ∫ √(κ / 8 tol) ds chords. κ is the curvature of the circle through three neighbouring
     samples (the larger of the two ends of each step is used); a point is kept at each
-    0.9-unit increase of that integral, and the result is checked on the dropped samples.
+    0.9-unit increase of that integral. Then every chord is checked on the samples it
+    replaces, and where one fails, the sample farthest from it is kept too (repeated until
+    all pass): the refinement stays local, so a smaller tolerance never gives fewer points
+    for a whole curve because of one failing chord.
     """
     p = np.asarray(points, dtype=float)
     n = len(p)
@@ -72,19 +75,40 @@ def _spline_polyline(points: np.ndarray, tol: float) -> np.ndarray:
     keep[0] = keep[-1] = True
     cell = np.floor(units)
     keep[1:-1] = cell[2:] > cell[1:-1]  # last sample before each unit boundary
-    idx = np.nonzero(keep)[0]
-    if _max_chord_error(p, idx) > tol:
-        return p
-    return p[idx]
+    return p[refine_chords(p, np.nonzero(keep)[0], tol)]
 
 
-def _max_chord_error(p: np.ndarray, idx: np.ndarray) -> float:
+def _chord_errors(p: np.ndarray, idx: np.ndarray):
+    """(owner chord of each sample, distance of each sample from its owner chord)."""
     owner = np.searchsorted(idx, np.arange(len(p)), side="right") - 1
     owner = np.clip(owner, 0, len(idx) - 2)
     a, b = p[idx[owner]], p[idx[owner + 1]]
     d = b - a
     L = np.maximum(np.hypot(d[:, 0], d[:, 1]), 1e-300)
-    return float(np.max(np.abs(d[:, 0] * (p - a)[:, 1] - d[:, 1] * (p - a)[:, 0]) / L))
+    return owner, np.abs(d[:, 0] * (p - a)[:, 1] - d[:, 1] * (p - a)[:, 0]) / L
+
+
+def refine_chords(p: np.ndarray, idx: np.ndarray, tol: float) -> np.ndarray:
+    """Indices ``idx`` (sorted, first and last kept) plus the samples needed so that no sample
+    of ``p`` lies farther than ``tol`` from the chord that replaces it: each failing chord
+    keeps its farthest sample, repeatedly (a Douglas–Peucker split where the check fails)."""
+    idx = np.asarray(idx, dtype=int)
+    while len(idx) < len(p):
+        owner, err = _chord_errors(p, idx)
+        bad = err > tol
+        if not bad.any():
+            break
+        cand = np.nonzero(bad)[0]
+        order = np.lexsort((-err[cand], owner[cand]))   # per chord, the farthest first
+        cand = cand[order]
+        first = np.ones(len(cand), dtype=bool)
+        first[1:] = owner[cand][1:] != owner[cand][:-1]
+        idx = np.union1d(idx, cand[first])
+    return idx
+
+
+def _max_chord_error(p: np.ndarray, idx: np.ndarray) -> float:
+    return float(np.max(_chord_errors(p, idx)[1]))
 
 
 def loop_polygon(loop: Loop, tol: float, ccw: bool = True) -> np.ndarray:
