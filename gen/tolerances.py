@@ -24,6 +24,12 @@ class Tolerances:
     #: added to the chord tolerance when sizes are measured on slices of exported triangles
     #: (slicing and polygon measurement round-off, mm)
     slice_extra: float = 2e-3
+    #: issue 11: a facet thinner than this (twice its area over its longest edge, mm) in a
+    #: re-read STL/3MF is degenerate; far below the chord tolerance, above float32 round-off
+    #: of a true sliver (area exactly 0 in the file)
+    facet_height: float = 1e-7
+    #: issue 11: edge tolerance (mm) a solid's edges may carry before STEP export
+    edge_tolerance: float = 1e-4
 
 
 @dataclass(frozen=True)

@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+import os
+
 from gen.export.atomic import write_atomic
 
 
@@ -12,8 +14,12 @@ def stl_bytes(mesh) -> bytes:
 
 
 def write_stl(mesh, path: str) -> int:
+    """Write ``mesh`` as binary STL; the bytes are re-read and checked (closed, no degenerate
+    facet, positive volume: :mod:`gen.export.readback`) before they replace ``path``."""
+    from gen.export.readback import verifier
+
     data = stl_bytes(mesh)
-    write_atomic(path, data)
+    write_atomic(path, data, verifier("stl", 1, os.path.basename(path)))
     return len(data)
 
 
