@@ -4,8 +4,9 @@ and every file re-read before it replaces an earlier one.
 Shape analysis (:func:`analyse_shape`), with the CAD kernel's own tools:
 
 * basic validity: ``BRepCheck_Analyzer`` (geometry checks on), exactly one solid;
-* contents: ``ShapeAnalysis_ShapeContents`` — free edges (an open shell), edges without a
-  curve on a face (``NbNoPCurve``), B-spline surfaces and curves of C0 continuity;
+* contents: ``ShapeAnalysis_ShapeContents`` — loose edges, edges without a curve on a face
+  (``NbNoPCurve``), B-spline surfaces and curves of C0 continuity; free edges (bounding one
+  face only: an open shell) from the edge → face map;
 * curve on surface: for every edge of every face, the 3-D curve against the face's curve on
   surface (``BRepAdaptor_Curve(edge)`` vs ``BRepAdaptor_Curve(edge, face)``) at 23 equally
   spaced parameters, the same sampling ``BRepCheck`` uses for SameParameter;
@@ -156,10 +157,22 @@ def analyse_shape(shape) -> ShapeReport:
     while verts.More():
         vert_tol = max(vert_tol, BRep_Tool.Tolerance_s(TopoDS.Vertex_s(verts.Current())))
         verts.Next()
+    # free edges: non-degenerate edges bounding a single face (an open shell); counted on the
+    # edge → face map, since ShapeContents counts only edges that belong to no face at all
+    from OCP.TopExp import TopExp
+    from OCP.TopTools import TopTools_IndexedDataMapOfShapeListOfShape
+
+    ancestors = TopTools_IndexedDataMapOfShapeListOfShape()
+    TopExp.MapShapesAndAncestors_s(shape, TopAbs_EDGE, TopAbs_FACE, ancestors)
+    free = contents.NbFreeEdges()
+    for i in range(1, ancestors.Extent() + 1):
+        edge = TopoDS.Edge_s(ancestors.FindKey(i))
+        if not BRep_Tool.Degenerated_s(edge) and ancestors.FindFromIndex(i).Size() == 1:
+            free += 1
     props = GProp_GProps()
     BRepGProp.VolumeProperties_s(shape, props)
     return ShapeReport(valid=bool(BRepCheck_Analyzer(shape, True).IsValid()),
-                       solids=contents.NbSolids(), free_edges=contents.NbFreeEdges(),
+                       solids=contents.NbSolids(), free_edges=int(free),
                        no_pcurve=contents.NbNoPCurve(), c0_surfaces=contents.NbC0Surfaces(),
                        c0_curves=contents.NbC0Curves(), edge_face_pairs=pairs,
                        max_curve_on_surface=float(worst), edges_off_surface=int(off),
