@@ -16,10 +16,9 @@ Curves map one to one onto DXF entities, in mm (``$INSUNITS = 4``):
   points, control points and knots: about 4.5 kB per flank). A two-point spline is a LINE.
 
 Closed polylines, for cutting software that reads no splines (``curves="polyline"``): each loop
-becomes one closed LWPOLYLINE through the same points the triangles use
-(:func:`gen.triangles.prism.loop_polygon`: spline samples thinned so every chord stays within
-the chord tolerance, arcs divided by their sagitta), so the polyline lies within the part's
-chord tolerance of the section. ``curves="both"`` writes the splines on the part's layer and
+becomes one closed LWPOLYLINE through :meth:`gen.geometry.section.Loop.polygon`: every
+generated flank sample (the points the splines pass through) and arcs divided so that the
+sagitta r (1 − cos(δ/2)) stays within the part's chord tolerance. ``curves="both"`` writes the splines on the part's layer and
 the polylines on a second layer ``<name>_polyline``.
 
 Determinism: ezdxf numbers handles in creation order, and its documented
@@ -125,10 +124,8 @@ def dxf_bytes(section, name: str, curves: str = "spline", tol: float = 0.01) -> 
 
 
 def _add_polyline(msp, loop, tol: float, attribs) -> None:
-    """One closed LWPOLYLINE through the loop's chord-tolerance polygon (mm)."""
-    from gen.triangles.prism import loop_polygon
-
-    pts = loop_polygon(loop, tol)
+    """One closed LWPOLYLINE through the loop's polygon within ``tol`` (mm)."""
+    pts = loop.polygon(tol)
     msp.add_lwpolyline([(float(x), float(y)) for x, y in pts], close=True, dxfattribs=attribs)
 
 

@@ -1,13 +1,9 @@
 """Re-read a written triangle file from its bytes on disk and check it is a closed solid.
 
-The check uses a second reader (trimesh's STL and 3MF loaders, not the code that wrote the
-bytes) on the file as written, and refuses it unless every object
-
-* has no degenerate facet: after merging vertices at equal coordinates, no facet repeats a
-  vertex and none is thinner than ``TOL.facet_height`` (twice its area over its longest edge);
-* is closed and manifold: every edge is shared by exactly two facets (an edge used by one
-  facet is a hole, by three or more a pinch or a fin);
-* encloses a positive volume (outward facets; signed volume by the divergence theorem).
+The check reads the file with a second reader (trimesh's STL and 3MF loaders, called through
+:func:`gen.export.stl.read_stl_objects` and :func:`gen.export.threemf.read_3mf_objects`, not
+the code that wrote the bytes) and refuses it unless every object is a closed solid with no
+degenerate facet and positive volume (:func:`gen.geometry.closed_surface.inspect`).
 
 Used as the ``verify`` step of :func:`gen.export.atomic.write_atomic`, so a refused file never
 replaces an earlier one.
@@ -15,88 +11,25 @@ replaces an earlier one.
 
 from __future__ import annotations
 
-from dataclasses import dataclass
-
-import numpy as np
-
 from gen.errors import ExportError
-from gen.tolerances import TOL
+from gen.geometry.closed_surface import TriangleReport, inspect
+
+__all__ = ["TriangleReport", "check_written", "inspect", "read_objects", "verifier"]
 
 
-@dataclass(frozen=True)
-class TriangleReport:
-    """What the re-read found in one object (lengths mm, volume mm³)."""
-
-    name: str
-    facets: int
-    degenerate: int        # facets repeating a vertex or thinner than TOL.facet_height
-    open_edges: int        # edges used by one facet
-    overshared_edges: int  # edges used by three or more facets
-    volume: float
-
-    @property
-    def ok(self) -> bool:
-        return (self.facets > 0 and self.degenerate == 0 and self.open_edges == 0
-                and self.overshared_edges == 0 and self.volume > 0)
-
-    def problem(self) -> str:
-        bits = []
-        if self.degenerate:
-            bits.append(f"{self.degenerate} degenerate facets")
-        if self.open_edges:
-            bits.append(f"{self.open_edges} open edges")
-        if self.overshared_edges:
-            bits.append(f"{self.overshared_edges} edges shared by more than two facets")
-        if not self.volume > 0:
-            bits.append(f"volume {self.volume:.6g} mm³ is not positive")
-        if not self.facets:
-            bits.append("no facets")
-        return ", ".join(bits)
-
-
-def inspect(vertices, faces, name: str = "") -> TriangleReport:
-    """Degenerate facets, edge use and signed volume of one triangle set (mm).
-
-    Vertices at exactly equal coordinates are merged first (an STL stores three corners per
-    facet), as every slicer does on load.
-    """
-    v = np.asarray(vertices, dtype=float)
-    f = np.asarray(faces, dtype=np.int64).reshape(-1, 3)
-    if len(f) == 0:
-        return TriangleReport(name, 0, 0, 0, 0, 0.0)
-    uniq, inverse = np.unique(v, axis=0, return_inverse=True)
-    f = inverse.ravel()[f]
-    repeated = (f[:, 0] == f[:, 1]) | (f[:, 1] == f[:, 2]) | (f[:, 0] == f[:, 2])
-    p0, p1, p2 = uniq[f[:, 0]], uniq[f[:, 1]], uniq[f[:, 2]]
-    cross = np.cross(p1 - p0, p2 - p0)
-    area2 = np.linalg.norm(cross, axis=1)               # twice the area
-    longest = np.max([np.linalg.norm(p1 - p0, axis=1), np.linalg.norm(p2 - p1, axis=1),
-                      np.linalg.norm(p0 - p2, axis=1)], axis=0)
-    height = np.divide(area2, longest, out=np.zeros_like(area2), where=longest > 0)
-    degenerate = int(np.count_nonzero(repeated | (height < TOL.facet_height)))
-    edges = np.sort(np.concatenate([f[:, [0, 1]], f[:, [1, 2]], f[:, [2, 0]]]), axis=1)
-    _, counts = np.unique(edges, axis=0, return_counts=True)
-    volume = float(np.einsum("ij,ij->i", p0, np.cross(p1, p2)).sum() / 6.0)
-    return TriangleReport(name, len(f), degenerate, int(np.count_nonzero(counts == 1)),
-                          int(np.count_nonzero(counts > 2)), volume)
-
-
-def read_objects(path: str, file_type: str) -> list[tuple[str, np.ndarray, np.ndarray]]:
-    """[(name, vertices, faces)] of every object in an STL or 3MF file, read by trimesh."""
-    import trimesh
-
+def read_objects(path: str, file_type: str):
+    """[(name, vertices, faces)] of every object in an STL or 3MF file (second reader)."""
+    if file_type == "stl":
+        from gen.export.stl import read_stl_objects as reader
+    elif file_type == "3mf":
+        from gen.export.threemf import read_3mf_objects as reader
+    else:
+        raise ExportError(f"no reader for {file_type}")
     try:
-        with open(path, "rb") as fh:
-            loaded = trimesh.load(fh, file_type=file_type, process=False)
+        return reader(path)
     except Exception as exc:  # a reader failure is a refusal, with the reader's words
         raise ExportError(f"the written {file_type.upper()} cannot be read back: "
                           f"{type(exc).__name__}: {exc}") from None
-    if isinstance(loaded, trimesh.Scene):
-        items = sorted(loaded.geometry.items())
-    else:
-        items = [("", loaded)]
-    return [(name, np.asarray(m.vertices), np.asarray(m.faces)) for name, m in items]
-
 
 def check_written(path: str, file_type: str, objects: int | None = None,
                   label: str = "") -> list[TriangleReport]:

@@ -26,3 +26,14 @@ def write_stl(mesh, path: str) -> int:
 def write_part(part, path: str, made) -> int:
     """The part's checked triangles as binary STL."""
     return write_stl(made.triangles, path)
+
+
+def read_stl_objects(path: str):
+    """[("", vertices, faces)] of an STL file read by trimesh (no processing: corners as
+    stored, three per facet)."""
+    import numpy as np
+    import trimesh
+
+    with open(path, "rb") as fh:
+        mesh = trimesh.load(fh, file_type="stl", process=False)
+    return [("", np.asarray(mesh.vertices), np.asarray(mesh.faces))]

@@ -129,3 +129,14 @@ def read_3mf(path: str):
     import trimesh
 
     return trimesh.load(path, force="mesh")
+
+
+def read_3mf_objects(path: str):
+    """[(name, vertices, faces)] of every object of a 3MF file read by trimesh, by name."""
+    import trimesh
+
+    with open(path, "rb") as fh:
+        loaded = trimesh.load(fh, file_type="3mf", process=False)
+    items = sorted(loaded.geometry.items()) if isinstance(loaded, trimesh.Scene) \
+        else [("", loaded)]
+    return [(name, np.asarray(m.vertices), np.asarray(m.faces)) for name, m in items]

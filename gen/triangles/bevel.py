@@ -48,7 +48,7 @@ def bevel_triangles(sizes, bore_diameter: float, flank, tol: float = 0.01):
     tm = trimesh.Trimesh(vertices=np.asarray(mesh.vert_properties)[:, :3],
                          faces=np.asarray(mesh.tri_verts), process=False)
     # checked as an STL reader will see it: float32 corners merged by position
-    from gen.export.readback import inspect
+    from gen.geometry.closed_surface import inspect
 
     rep = inspect(np.asarray(tm.vertices, dtype=np.float32), tm.faces)
     if not rep.ok:
