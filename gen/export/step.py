@@ -201,10 +201,16 @@ def read_step_shape(path: str):
     return reader.OneShape()
 
 
-def step_verifier(what: str, solids: int, volume: float, rel: float = 1e-6):
+#: relative volume change allowed between a solid and its STEP re-read: the kernel integrates
+#: volumes of B-spline faces numerically, and the re-read faces (same surfaces, curves on them
+#: rebuilt by the reader) integrated to within 5e-6 on the demo pulleys; a lost or turned face
+#: changes the volume by far more
+STEP_VOLUME_REL = 1e-4
+
+
+def step_verifier(what: str, solids: int, volume: float, rel: float = STEP_VOLUME_REL):
     """A ``verify(path)`` for :func:`write_atomic`: the STEP as written re-reads as ``solids``
-    valid solids passing the shape analysis, of total volume ``volume`` (relative ``rel``:
-    STEP stores coordinates in text to about 1e-15 relative, so any larger change is a fault)."""
+    solids passing the shape analysis, of total volume ``volume`` within ``rel``."""
     def verify(path: str) -> None:
         shape = read_step_shape(path)
         report = analyse_shape(shape)
