@@ -52,11 +52,12 @@ class BuildResult:
                 and (self.plate is None or self.plate.ok))
 
 
-def _keep_earlier(oc: PartOutcome, prev: dict, out: str) -> None:
-    """A failed part keeps the files an earlier build wrote (unchanged on disk) and lists them."""
+def _keep_earlier(oc: PartOutcome, prev: dict, out: str, formats) -> None:
+    """A failed part keeps the files of the requested formats that an earlier build wrote
+    (unchanged on disk) and lists them."""
     kept = {}
     for fmt, info in (prev.get("files") or {}).items():
-        if fmt in oc.files:
+        if fmt in oc.files or fmt not in formats:
             continue
         path = os.path.join(out, info.get("path", ""))
         if os.path.isfile(path) and os.path.getsize(path) == info.get("bytes") and \
@@ -116,7 +117,7 @@ def build(result, out: str, formats, *, force: bool = False, jobs: int = 1,
     export_assemblies(result, out, formats, report, prev)
     for name, oc in report.outcomes.items():
         if not oc.ok:
-            _keep_earlier(oc, earlier.get(name, {}), out)
+            _keep_earlier(oc, earlier.get(name, {}), out, formats)
     if "3mf" in formats and plate:
         export_plate(result, out, report, plate)
     plates = report.plate.extra.get("plates", []) if report.plate else []
