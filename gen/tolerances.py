@@ -27,6 +27,12 @@ class Tolerances:
     #: relative float round-off allowed on top of the chord-tolerance bound when a rotor's mass
     #: properties are measured on slices of its exported triangles (issue 16)
     rotor_slice_rel: float = 1e-6
+    #: issue 11: a facet thinner than this (twice its area over its longest edge, mm) in a
+    #: re-read STL/3MF is degenerate; far below the chord tolerance, above float32 round-off
+    #: of a true sliver (area exactly 0 in the file)
+    facet_height: float = 1e-7
+    #: issue 11: edge tolerance (mm) a solid's edges may carry before STEP export
+    edge_tolerance: float = 1e-4
 
 
 @dataclass(frozen=True)

@@ -172,10 +172,10 @@ def test_one_failing_export_leaves_the_others(tmp_path, monkeypatch, capsys):
 
     real = step.write_step
 
-    def flaky(shape, path, name):
+    def flaky(shape, path, name, *rest):
         if name == "tray_wheel":
             raise step.ExportError("disk full (simulated)")
-        return real(shape, path, name)
+        return real(shape, path, name, *rest)
 
     monkeypatch.setattr(step, "write_step", flaky)
     assert main(["build", INDEXER, "--out", str(tmp_path)]) == 1

@@ -50,24 +50,6 @@ def test_dxf_is_not_expected_from_a_part_without_a_section():
     assert cache.expected_formats(_model(), ("step", "dxf")) == ("step", "dxf")
 
 
-def test_plate_key_follows_its_parts_and_the_plate():
-    oc = SimpleNamespace(ok=True, files={"3mf": {"sha256": "a"}})
-    k = cache.plate_key({"g": oc}, (220, 220))
-    assert k == cache.plate_key({"g": oc}, (220, 220))
-    assert k != cache.plate_key({"g": oc}, (200, 220))
-    oc2 = SimpleNamespace(ok=True, files={"3mf": {"sha256": "b"}})
-    assert k != cache.plate_key({"g": oc2}, (220, 220))
-
-
-def test_plate_record_is_kept_in_the_manifest(tmp_path):
-    from gen import __version__
-
-    (tmp_path / cache.MANIFEST).write_text(json.dumps({"version": __version__, "parts": {}}))
-    cache.add_plate_record(str(tmp_path), {"key": "k", "files": {}})
-    assert cache.read_plate_record(str(tmp_path)) == {"key": "k", "files": {}}
-    assert cache.read_manifest(str(tmp_path)) == {}
-
-
 def test_identical_parts_share_one_triangulation(monkeypatch):
     made = []
 

@@ -55,4 +55,4 @@ def test_parallel_jobs_give_the_same_files(tmp_path):
     for f in sorted(os.listdir(one)):
         if f.endswith((".stl", ".3mf")):
             assert open(os.path.join(one, f), "rb").read() == open(os.path.join(two, f), "rb").read(), f
-    assert os.path.exists(os.path.join(one, "plate.3mf"))
+    assert os.path.exists(os.path.join(one, "plate_1.3mf"))   # numbered plates (issue 11)

@@ -1,7 +1,7 @@
 """Build: export every checked part (and assembly) to files, incrementally, in parallel.
 
 ``run`` orchestrates; ``export`` writes one part; ``cache`` decides what is up to date;
-``manifest``, ``plate``, ``assembly`` and ``progress`` do one job each.
+``manifest``, ``plate``, ``assembly``, ``clean``, ``cluster`` and ``progress`` do one job each.
 """
 
 from gen.build.export import export_part, make_solid, make_triangles

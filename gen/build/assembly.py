@@ -1,4 +1,4 @@
-"""The STEP of each assembly: every gear solid placed in mesh and named after its part."""
+"""Assembly STEP: every part of an assembly placed by its pose, each its own named product."""
 
 from __future__ import annotations
 
@@ -9,35 +9,39 @@ import time
 
 from gen import __version__
 from gen.build.cache import file_info, up_to_date
-from gen.build.export import make_solid
 from gen.build.outcome import PartOutcome
 from gen.findings import ERROR, Finding
 
 
-def assembly_step(asm, models, path: str, out: str | None = None) -> int:
-    """One STEP of an assembly: every gear solid placed in mesh and named after its part.
+def assembly_items(asm, models, out: str | None = None):
+    """[(part name, solid, 4×4 pose)] of an assembly's parts.
 
-    Solids already exported this build are read back from their STEP files instead of being
-    rebuilt (the same bytes, so the same geometry)."""
-    from gen.build.cache import params_hash
-    from gen.export.step import read_step, write_step_assembly
+    A solid already exported this build is read back from its STEP file rather than rebuilt
+    (the same bytes, so the same geometry); parts with equal parameters share one solid here,
+    and :func:`gen.export.step.write_step_assembly` gives each placement its own product."""
+    from gen.export.step import read_step
+    from gen.solid import solid
 
     items, cache = [], {}
     for part, pose in asm.poses.items():
-        key = params_hash(models[part])   # identical members are built once
+        model = models[part]
+        key = json.dumps({"kind": model.kind, "values": model.values}, sort_keys=True,
+                         default=str)
         if key not in cache:
             done = os.path.join(out, part + ".step") if out else None
             cache[key] = (read_step(done).Solids()[0] if done and os.path.exists(done)
-                          else make_solid(models[part]))
+                          else solid(model.shape))
         items.append((part, cache[key], pose))
-    return write_step_assembly(items, path, asm.name)
+    return items
 
 
 def export_assemblies(result, out, formats, report, prev) -> None:
     if "step" not in formats:
         return
+    from gen.export.step import write_step_assembly
+
     for asm in result.assemblies:
-        parts = [report.outcomes.get(p) for p in asm.parts.values()]
+        parts = [report.outcomes.get(p) for p in asm.poses]
         path = os.path.join(out, asm.name + ".step")
         key = f"assembly:{asm.name}"
         phash = hashlib.sha256(json.dumps({"values": asm.values, "v": __version__},
@@ -49,11 +53,13 @@ def export_assemblies(result, out, formats, report, prev) -> None:
             t0 = time.perf_counter()
             oc = PartOutcome(key, True)
             try:
-                size = assembly_step(asm, result.models, path, out)
+                size = write_step_assembly(assembly_items(asm, result.models, out), path,
+                                           asm.name)
                 oc.files["step"] = file_info(path, size)
             except Exception as exc:  # reported, never a traceback
                 oc.ok, oc.status = False, "failed"
-                oc.findings.append(Finding(ERROR, "export", f"assembly STEP: {exc}", asm.name, ""))
+                oc.findings.append(Finding(ERROR, "export", f"assembly STEP: {exc}", asm.name,
+                                           "", scope="assembly"))
             oc.seconds = time.perf_counter() - t0
         oc.params_hash = phash
         report.outcomes[key] = oc

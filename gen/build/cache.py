@@ -1,4 +1,5 @@
-"""Incremental builds: parameter hashes, file digests, the previous manifest, up-to-date tests."""
+"""Incremental builds: parameter hashes, file fingerprints, the previous manifest, and the
+up-to-date test."""
 
 from __future__ import annotations
 
@@ -10,16 +11,21 @@ from gen import __version__
 
 MANIFEST = "manifest.json"
 
+#: format options and the format they change (an option counts only when its format is built)
+OPTION_FORMAT = {"dxf_curves": "dxf"}
 
-def params_hash(model, formats=()) -> str:
-    """SHA-256 of what fixes a part's geometry: kind, resolved values, tool version.
 
-    ``formats`` is accepted for old callers and ignored: which files a part needs is checked
-    per format by :func:`up_to_date`, so dropping a format does not rebuild the part, and
-    two parts with the same hash have the same geometry (built once, see
-    :mod:`gen.build.run`).
+def params_hash(model, formats=(), options=None) -> str:
+    """SHA-256 of what fixes a part's files: kind, resolved values, tool version, and the
+    options of the formats asked for (``dxf_curves`` when DXF is built).
+
+    The formats themselves are not hashed: which files a part needs is checked per format by
+    :func:`up_to_date`, so dropping a format does not rebuild the part, and two parts with
+    the same hash have the same geometry (built once, see :mod:`gen.build.run`).
     """
-    blob = json.dumps({"kind": model.kind, "values": model.values, "version": __version__},
+    extra = {k: v for k, v in (options or {}).items() if OPTION_FORMAT.get(k) in formats}
+    blob = json.dumps({"kind": model.kind, "values": model.values, "version": __version__,
+                       **({"extra": extra} if extra else {})},
                       sort_keys=True, default=str).encode()
     return hashlib.sha256(blob).hexdigest()
 
@@ -30,7 +36,7 @@ def expected_formats(model, formats) -> tuple:
     return tuple(f for f in formats if not (f == "dxf" and getattr(model, "section", 1) is None))
 
 
-def sha256_of(path: str) -> str:
+def sha256_file(path: str) -> str:
     h = hashlib.sha256()
     with open(path, "rb") as fh:
         for chunk in iter(lambda: fh.read(1 << 20), b""):
@@ -39,16 +45,40 @@ def sha256_of(path: str) -> str:
 
 
 def file_info(path: str, size: int) -> dict:
-    return {"path": os.path.basename(path), "bytes": size, "sha256": sha256_of(path)}
+    """The manifest entry of one written file: name in the output folder, bytes, SHA-256."""
+    return {"path": os.path.basename(path), "bytes": size, "sha256": sha256_file(path)}
 
 
-def read_manifest(out: str) -> dict:
+def read_manifest_doc(out: str) -> dict:
+    """The whole previous manifest (any version), or {} when there is none readable."""
     try:
         with open(os.path.join(out, MANIFEST), encoding="utf-8") as fh:
             doc = json.load(fh)
-        return doc.get("parts", {}) if doc.get("version") == __version__ else {}
+        return doc if isinstance(doc, dict) else {}
     except (OSError, ValueError):
         return {}
+
+
+def read_manifest(out: str) -> dict:
+    """Per-part entries of the previous manifest when written by this version, else {}."""
+    doc = read_manifest_doc(out)
+    parts = doc.get("parts", {}) if doc.get("version") == __version__ else {}
+    return parts if isinstance(parts, dict) else {}
+
+
+def listed_files(doc: dict) -> set[str]:
+    """Every file name a manifest lists (parts, assemblies and plates)."""
+    names = set()
+    for entry in (doc.get("parts") or {}).values():
+        if not isinstance(entry, dict):
+            continue
+        for info in (entry.get("files") or {}).values():
+            if isinstance(info, dict) and isinstance(info.get("path"), str):
+                names.add(info["path"])
+    for info in doc.get("plates") or []:
+        if isinstance(info, dict) and isinstance(info.get("path"), str):
+            names.add(info["path"])
+    return names
 
 
 def up_to_date(prev: dict, phash: str, out: str, formats=None) -> bool:
@@ -58,48 +88,24 @@ def up_to_date(prev: dict, phash: str, out: str, formats=None) -> bool:
     ``formats``: the formats needed now (None: every file of ``prev``); files of formats not
     needed any more are not looked at (nor is the part rebuilt for them).
     """
-    if not prev or prev.get("params_hash") != phash or prev.get("status") == "failed":
+    if not isinstance(prev, dict) or not prev or prev.get("params_hash") != phash \
+            or prev.get("status") == "failed":
         return False
     files = prev.get("files", {})
+    if not isinstance(files, dict):
+        return False
     if formats is not None:
         if any(f not in files for f in formats):
             return False
         files = {f: files[f] for f in formats}
     for info in files.values():
+        if not isinstance(info, dict) or not isinstance(info.get("path"), str):
+            return False
         path = os.path.join(out, info["path"])
-        if not os.path.exists(path) or os.path.getsize(path) != info["bytes"] or \
-                sha256_of(path) != info["sha256"]:
+        if not os.path.isfile(path) or os.path.getsize(path) != info.get("bytes") or \
+                sha256_file(path) != info.get("sha256"):
             return False
     return bool(files) or formats == ()
-
-
-def plate_key(outcomes: dict, plate) -> str:
-    """SHA-256 of what fixes ``plate.3mf``: the plate size and every placed part's 3MF digest."""
-    parts = sorted((name, oc.files["3mf"]["sha256"]) for name, oc in outcomes.items()
-                   if oc.ok and "3mf" in oc.files and not name.startswith("assembly:"))
-    blob = json.dumps({"plate": list(plate), "parts": parts, "version": __version__}).encode()
-    return hashlib.sha256(blob).hexdigest()
-
-
-def read_plate_record(out: str) -> dict:
-    """The ``plate`` entry of the previous manifest ({} when none)."""
-    try:
-        with open(os.path.join(out, MANIFEST), encoding="utf-8") as fh:
-            doc = json.load(fh)
-        return doc.get("plate", {}) if doc.get("version") == __version__ else {}
-    except (OSError, ValueError):
-        return {}
-
-
-def add_plate_record(out: str, record: dict) -> None:
-    """Store ``record`` as the manifest's ``plate`` entry (key and file digest)."""
-    from gen.export.atomic import write_atomic
-
-    path = os.path.join(out, MANIFEST)
-    with open(path, encoding="utf-8") as fh:
-        doc = json.load(fh)
-    doc["plate"] = record
-    write_atomic(path, (json.dumps(doc, indent=2, sort_keys=True) + "\n").encode())
 
 
 def geometry_cost(model) -> float:

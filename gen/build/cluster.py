@@ -45,11 +45,11 @@ def part_from_recipe(recipe):
     raise PitchlineError(f"unknown part recipe {what!r}")
 
 
-def export_recipe(recipe, formats) -> tuple:
+def export_recipe(recipe, formats, options=None) -> tuple:
     """(outcome, {format: bytes}) of one part, exported in a private temporary folder."""
     part = part_from_recipe(recipe)
     with tempfile.TemporaryDirectory(prefix="pitchline-") as tmp:
-        outcome = export_part(part, tmp, formats)
+        outcome = export_part(part, tmp, formats, options)
         blobs = {}
         for fmt, info in outcome.files.items():
             with open(os.path.join(tmp, info["path"]), "rb") as fh:
@@ -57,7 +57,8 @@ def export_recipe(recipe, formats) -> tuple:
     return outcome, blobs
 
 
-def export_on_dask(result, names, out: str, formats, scheduler: str | None, progress):
+def export_on_dask(result, names, out: str, formats, scheduler: str | None, progress,
+                   options=None):
     """Export ``names`` of a checked result on the cluster at ``scheduler`` (None: a local
     cluster of 2 workers); yields each part's outcome once its files are written."""
     try:
@@ -73,7 +74,7 @@ def export_on_dask(result, names, out: str, formats, scheduler: str | None, prog
                                dashboard_address=None)
         client = Client(cluster)
     try:
-        futures = [client.submit(export_recipe, result.recipes[n], tuple(formats),
+        futures = [client.submit(export_recipe, result.recipes[n], tuple(formats), options,
                                  retries=RETRIES, pure=False) for n in names]
         for fut in as_completed(futures):
             outcome, blobs = fut.result()

@@ -1,6 +1,8 @@
-"""Export one part: triangles, measured on slices; then each format's writer from the table.
+"""Export one part: triangles, re-measured slices, mass, then one file per requested format.
 
-Raises nothing: failures become error findings of the part's outcome.
+Every writer checks its own bytes before they replace an earlier file (STL/3MF re-read by a
+second reader, STEP shape analysis and re-read: :mod:`gen.export`); any failure becomes an
+error finding of the part and leaves the earlier file in place.
 """
 
 from __future__ import annotations
@@ -11,75 +13,94 @@ import time
 from gen.build.cache import file_info
 from gen.build.outcome import PartOutcome
 from gen.errors import PitchlineError
-from gen.findings import ERROR, INFO, Finding, has_errors
+from gen.findings import ERROR, WARNING, Finding, has_errors
 
-
-def make_triangles(model):
-    """Triangle mesh of a part, by the builder its shape names."""
-    from gen.triangles import triangles
-
-    return triangles(model.shape, model.chord_tol)
-
-
-def make_solid(model):
-    """CAD solid of a part, by the builder its shape names (imports the kernel)."""
-    from gen.solid import solid
-
-    return solid(model.shape)
+#: relative disagreement allowed between the solid's and the triangles' volume: the triangles
+#: lie within the chord tolerance of the exact surfaces (0.01 mm), far under 1 % of any part
+VOLUME_REL = 0.01
 
 
 class Made:
-    """A part's triangles, and its solid built on first use and checked against them."""
+    """What the writers of one part share: its checked triangles and (on first use) its solid.
 
-    def __init__(self, part, triangles):
-        self.part, self.triangles, self._solid = part, triangles, None
+    ``options`` holds format options (``dxf_curves``: "spline", "polyline" or "both").
+    """
+
+    def __init__(self, part, triangles, options=None):
+        self.part = part
+        self.triangles = triangles
+        self.options = dict(options or {})
+        self.notes = []        # findings the writers report (e.g. shape-analysis warnings)
+        self.analysis = {}     # format -> what the writer's check measured
+        self._solid = None
 
     def solid(self):
         if self._solid is None:
-            solid = make_solid(self.part)
-            vol = solid.Volume()
-            if abs(vol - self.triangles.volume) > 0.01 * abs(vol):
-                raise PitchlineError(f"STEP volume {vol:.3f} mm³ and mesh volume "
-                                     f"{self.triangles.volume:.3f} mm³ disagree by more than 1 %")
-            self._solid = solid
+            from gen.solid import solid
+
+            s = solid(self.part.shape)
+            vol = s.Volume()
+            tri = float(self.triangles.volume)
+            if abs(vol - tri) > VOLUME_REL * abs(vol):
+                raise PitchlineError(f"solid volume {vol:.3f} mm³ and triangle volume "
+                                     f"{tri:.3f} mm³ disagree by more than "
+                                     f"{100 * VOLUME_REL:g} %")
+            self._solid = s
         return self._solid
 
 
-def export_part(model, out: str, formats) -> PartOutcome:
-    """Triangulate, measure, then write the part's files. Raises nothing: failures are findings."""
+def make_triangles(part):
+    """Triangles of a part, by the builder its shape names."""
+    from gen.triangles import triangles
+
+    return triangles(part.shape, part.chord_tol)
+
+
+def make_solid(part):
+    """Solid of a part, by the builder its shape names (imports the kernel)."""
+    from gen.solid import solid
+
+    return solid(part.shape)
+
+
+def export_part(part, out: str, formats, options=None) -> PartOutcome:
+    """Triangulate, re-measure, then write the part's files. Raises nothing: failures are
+    findings of the outcome."""
     from gen.export.registry import FORMATS, writer
     from gen.triangles.prism import slice_polygons
 
     t0 = time.perf_counter()
-    outcome = PartOutcome(name=model.name, ok=True)
+    outcome = PartOutcome(name=part.name, ok=True)
     try:
-        tri = make_triangles(model)
-        for slice_check in model.slice_checks:
-            outcome.findings += slice_check(lambda z: slice_polygons(tri, z))
+        mesh = make_triangles(part)
+        for check in part.slice_checks:
+            outcome.findings += list(check(lambda z: slice_polygons(mesh, z)))
         if has_errors(outcome.findings):
             outcome.ok, outcome.status = False, "failed"
             return outcome
         from gen.triangles.mass import mass_properties
         from gen.validate.strength import material
 
-        mat = material(model.values.get("material") or "PLA")
+        mat = material(part.values.get("material") or "PLA")
         outcome.mass = {"material": mat.name, "density_g_cm3": mat.density,
-                        **mass_properties(tri, mat.density)}
-        made = Made(model, tri)
+                        **mass_properties(mesh, mat.density)}
+        made = Made(part, mesh, options)
         for fmt in formats:
-            path = os.path.join(out, model.name + FORMATS[fmt].suffix)
-            size = writer(fmt)(model, path, made)
+            path = os.path.join(out, part.name + FORMATS[fmt].suffix)
+            size = writer(fmt)(part, path, made)
             if size is None:
-                outcome.findings.append(Finding(INFO, "no-profile", f"no flat profile to cut: "
-                                                f"{fmt.upper()} skipped", model.name, ""))
+                outcome.findings.append(Finding(
+                    WARNING, "no-profile", f"{part.kind} '{part.name}' has no flat section to "
+                    f"cut: no {fmt.upper()} written", part.name, "", scope="part"))
                 continue
             outcome.files[fmt] = file_info(path, size)
+        outcome.findings += made.notes
     except PitchlineError as exc:
         outcome.ok, outcome.status = False, "failed"
-        outcome.findings.append(Finding(ERROR, "export", str(exc), model.name, ""))
+        outcome.findings.append(Finding(ERROR, "export", str(exc), part.name, "", scope="part"))
     except Exception as exc:  # kernel failures are reported, never a traceback
         outcome.ok, outcome.status = False, "failed"
         outcome.findings.append(Finding(ERROR, "export", f"{type(exc).__name__}: {exc}",
-                                        model.name, ""))
+                                        part.name, "", scope="part"))
     outcome.seconds = time.perf_counter() - t0
     return outcome

@@ -1,4 +1,4 @@
-"""What exporting one part produced: status, files, findings, mass properties."""
+"""What exporting one part (or an assembly, or a plate) produced."""
 
 from __future__ import annotations
 
@@ -15,3 +15,4 @@ class PartOutcome:
     findings: list = field(default_factory=list)
     mass: dict = field(default_factory=dict)
     params_hash: str | None = None
+    extra: dict = field(default_factory=dict)   # e.g. a plate's list of files and parts

@@ -1,36 +1,62 @@
-"""``plate.3mf``: every built part's triangles laid flat and packed on one build plate."""
+"""Plates: every built part's triangles laid flat and packed on as many build plates as they
+need, written as ``plate_1.3mf``, ``plate_2.3mf`` … (listed in the manifest under ``plates``).
+
+A part that fits on no plate fails the plate step (an error finding; the build exits 1) and no
+plate file is written; plate files of an earlier build that this build does not list are
+removed with the other stale files (:mod:`gen.build.clean`).
+"""
 
 from __future__ import annotations
 
 import os
+import re
 
 from gen.build.cache import file_info
 from gen.build.outcome import PartOutcome
 from gen.errors import PitchlineError
 from gen.findings import ERROR, Finding
 
+PLATE_FILE = "plate_{}.3mf"
+PLATE_RE = re.compile(r"^plate_\d+$")
+
 
 def export_plate(result, out, report, plate) -> None:
-    """``plate.3mf``: every built part's mesh laid flat and packed on one build plate."""
+    """Pack the parts' meshes (re-read from their written 3MF files) onto plates of ``plate``
+    = (width, depth) mm; sets ``report.plate`` (an outcome whose ``extra['plates']`` lists the
+    plate files and the parts on each)."""
     from gen.export.threemf import read_3mf, write_3mf
-    from gen.triangles.plate import arrange
+    from gen.triangles.plate import arrange_plates
 
+    oc = PartOutcome("plate", True)
     items = []
     for name in sorted(result.models):
-        oc = report.outcomes.get(name)
-        if oc is None or not oc.ok or "3mf" not in oc.files:
+        part_oc = report.outcomes.get(name)
+        if part_oc is None or not part_oc.ok or "3mf" not in part_oc.files:
             continue
-        # the part's own 3MF holds exactly its mesh
-        mesh = read_3mf(os.path.join(out, oc.files["3mf"]["path"]))
+        # the part's own 3MF holds exactly its checked triangles, as written
+        mesh = read_3mf(os.path.join(out, part_oc.files["3mf"]["path"]))
         items.append((name, mesh))
-    key = "plate"
-    oc = PartOutcome(key, True)
+    plates, written = [], []
     try:
-        placed = arrange(items, plate=plate)
-        path = os.path.join(out, "plate.3mf")
-        size = write_3mf([(p.name, p.mesh) for p in placed], path)
-        oc.files["3mf"] = file_info(path, size)
+        clash = [n for n in result.models if PLATE_RE.match(n)]
+        if clash:
+            raise PitchlineError(f"part '{clash[0]}' has the name of a plate file; rename it")
+        if items:
+            for i, placed in enumerate(arrange_plates(items, plate=plate), start=1):
+                path = os.path.join(out, PLATE_FILE.format(i))
+                size = write_3mf([(p.name, p.mesh) for p in placed], path)
+                written.append(path)
+                plates.append({**file_info(path, size), "parts": [p.name for p in placed],
+                               "plate_mm": [float(plate[0]), float(plate[1])]})
     except PitchlineError as exc:
         oc.ok, oc.status = False, "failed"
-        oc.findings.append(Finding(ERROR, "plate", str(exc), "plate", ""))
+        oc.findings.append(Finding(ERROR, "plate", str(exc), "plate", "", scope="part"))
+        plates = []
+        for path in written:      # no partial set of plates is left behind
+            try:
+                os.unlink(path)
+            except OSError:
+                pass
+    oc.files = {p["path"]: p for p in plates}
+    oc.extra["plates"] = plates
     report.plate = oc

@@ -1,21 +1,17 @@
-"""A one-line progress bar on a terminal, plain lines otherwise."""
+"""Progress lines of a build: a one-line bar on a terminal, plain lines otherwise."""
 
 from __future__ import annotations
 
 import sys
 
-from gen.build.outcome import PartOutcome
-
 
 class Progress:
-    """A one-line bar on a terminal, plain lines otherwise."""
-
     def __init__(self, total: int, stream=None, enabled: bool | None = None):
         self.total, self.done = total, 0
         self.stream = stream or sys.stdout
         self.tty = self.stream.isatty() if enabled is None else enabled
 
-    def step(self, outcome: PartOutcome) -> None:
+    def step(self, outcome) -> None:
         self.done += 1
         sizes = ", ".join(f"{f} {v['bytes'] / 1024:.0f} kB" for f, v in outcome.files.items())
         if self.tty:

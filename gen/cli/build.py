@@ -27,6 +27,10 @@ def register(sub):
                         "--executor dask: a local two-worker cluster)")
     p.add_argument("--plate", default="220x220", metavar="WxD",
                    help="build plate for plate.3mf when 3mf is a format (mm, default 220x220)")
+    p.add_argument("--dxf-curves", default="spline", choices=("spline", "polyline", "both"),
+                   help="DXF flank curves: splines through the generated points, closed "
+                        "polylines within the chord tolerance, or both on two layers "
+                        "(default: spline)")
     p.set_defaults(func=run)
 
 
@@ -59,15 +63,24 @@ def run(args) -> int:
         print_findings(result.findings)
         print("nothing was written", file=sys.stderr)
         return 1
+    from gen.build.manifest import project_root
+
     report = build(result, args.out, formats, force=args.force, jobs=args.jobs,
                    progress=Progress(len(result.models)), plate=plate,
-                   executor=args.executor, scheduler=args.scheduler)
+                   executor=args.executor, scheduler=args.scheduler,
+                   options={"dxf_curves": args.dxf_curves}, root=project_root(args.paths))
     plate_oc = report.plate
     if plate_oc is not None and not plate_oc.ok:
         print_findings(plate_oc.findings)
     for oc in report.outcomes.values():
-        if not oc.ok:
-            print_findings(oc.findings)
+        shown = [f for f in oc.findings if not oc.ok or f.severity != "info"]
+        if shown:
+            print_findings(shown)
+    if plate_oc is not None and plate_oc.ok and plate_oc.extra.get("plates"):
+        names = ", ".join(p["path"] for p in plate_oc.extra["plates"])
+        print(f"plates: {names}")
+    if report.removed:
+        print(f"removed files the manifest no longer lists: {', '.join(report.removed)}")
     if result.pairs:
         from gen.cli.check import write_report
 

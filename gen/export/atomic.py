@@ -1,4 +1,10 @@
-"""Atomic file writes: a temporary file in the target folder, then one rename."""
+"""Atomic file writes: a temporary file in the target folder, checked, then one rename.
+
+``write_atomic(path, data, verify)`` writes the bytes to a temporary file next to ``path``,
+calls ``verify(temp_path)`` on the bytes as they lie on disk (it raises to refuse them), and
+only then renames the file over ``path``: an earlier good file is never replaced by a bad one,
+and a refused file leaves nothing behind.
+"""
 
 from __future__ import annotations
 
@@ -11,7 +17,7 @@ _UMASK = os.umask(0)
 os.umask(_UMASK)
 
 
-def write_atomic(path: str, data: bytes) -> None:
+def write_atomic(path: str, data: bytes, verify=None) -> None:
     folder = os.path.dirname(os.path.abspath(path))
     try:
         os.makedirs(folder, exist_ok=True)
@@ -22,13 +28,22 @@ def write_atomic(path: str, data: bytes) -> None:
         with os.fdopen(fd, "wb") as fh:
             fh.write(data)
         os.chmod(tmp, 0o666 & ~_UMASK)
+        if verify is not None:
+            verify(tmp)
         os.replace(tmp, path)
     except OSError as exc:
-        try:
-            os.unlink(tmp)
-        except OSError:
-            pass
+        _drop(tmp)
         raise ExportError(f"cannot write {path}: {exc.strerror or exc}") from None
+    except BaseException:
+        _drop(tmp)
+        raise
+
+
+def _drop(tmp: str) -> None:
+    try:
+        os.unlink(tmp)
+    except OSError:
+        pass
 
 
 def temp_path(folder: str, suffix: str) -> str:

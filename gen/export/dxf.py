@@ -15,6 +15,12 @@ Curves map one to one onto DXF entities, in mm (``$INSUNITS = 4``):
   0.01 mm (circumferential) of the trochoidal root between samples. The price is size (fit
   points, control points and knots: about 4.5 kB per flank). A two-point spline is a LINE.
 
+Closed polylines, for cutting software that reads no splines (``curves="polyline"``): each loop
+becomes one closed LWPOLYLINE through :meth:`gen.geometry.section.Loop.polygon`: every
+generated flank sample (the points the splines pass through) and arcs divided so that the
+sagitta r (1 − cos(δ/2)) stays within the part's chord tolerance. ``curves="both"`` writes the splines on the part's layer and
+the polylines on a second layer ``<name>_polyline``.
+
 Determinism: ezdxf numbers handles in creation order, and its documented
 ``options.write_fixed_meta_data_for_testing`` switch fixes the header dates ($TDCREATE,
 $TDUPDATE …), the GUIDs and the "written by" stamp; it is switched on only while this
@@ -66,8 +72,20 @@ def _add_curve(msp, curve, attribs, fit_to_cv) -> str:
     raise ExportError(f"cannot write curve type {type(curve).__name__} to DXF")
 
 
-def dxf_bytes(section, name: str) -> bytes:
-    """DXF text of ``section`` (outer loop and holes) on a layer called ``name``."""
+#: what ``curves`` may ask for
+CURVES = ("spline", "polyline", "both")
+#: suffix of the polyline layer when both are written
+POLYLINE_LAYER = "_polyline"
+
+
+def dxf_bytes(section, name: str, curves: str = "spline", tol: float = 0.01) -> bytes:
+    """DXF text of ``section`` (outer loop and holes) on a layer called ``name``.
+
+    ``curves``: "spline" (exact entities), "polyline" (closed polylines within ``tol`` mm),
+    or "both" (polylines on the layer ``name + "_polyline"``).
+    """
+    if curves not in CURVES:
+        raise ExportError(f"DXF curves must be one of {', '.join(CURVES)} (got {curves!r})")
     import ezdxf
     from ezdxf import bbox, zoom
     from ezdxf.math import fit_points_to_cad_cv
@@ -86,15 +104,21 @@ def dxf_bytes(section, name: str) -> bytes:
         doc.header["$INSUNITS"] = INSUNITS_MM
         doc.header["$MEASUREMENT"] = 1   # metric
         doc.header["$LUNITS"] = 2        # decimal
+        poly_layer = name + POLYLINE_LAYER if curves == "both" else name
         try:
             doc.layers.add(name)
+            if poly_layer != name:
+                doc.layers.add(poly_layer)
         except Exception as exc:  # ezdxf rejects names DXF does not allow
             raise ExportError(f"'{name}' cannot be a DXF layer name: {exc}") from None
         msp = doc.modelspace()
         attribs = {"layer": name}
         for loop in (section.outer, *section.holes):
-            for curve in loop.curves:
-                _add_curve(msp, curve, attribs, fit_points_to_cad_cv)
+            if curves in ("spline", "both"):
+                for curve in loop.curves:
+                    _add_curve(msp, curve, attribs, fit_points_to_cad_cv)
+            if curves in ("polyline", "both"):
+                _add_polyline(msp, loop, tol, {"layer": poly_layer})
         box = bbox.extents(msp)
         if box.has_data:
             msp.reset_extents(box.extmin, box.extmax)  # copied to $EXTMIN/$EXTMAX on write
@@ -106,9 +130,15 @@ def dxf_bytes(section, name: str) -> bytes:
         ezdxf.options.write_fixed_meta_data_for_testing = old
 
 
-def write_dxf(section, path: str, name: str) -> int:
+def _add_polyline(msp, loop, tol: float, attribs) -> None:
+    """One closed LWPOLYLINE through the loop's polygon within ``tol`` (mm)."""
+    pts = loop.polygon(tol)
+    msp.add_lwpolyline([(float(x), float(y)) for x, y in pts], close=True, dxfattribs=attribs)
+
+
+def write_dxf(section, path: str, name: str, curves: str = "spline", tol: float = 0.01) -> int:
     """Write ``section`` (a :class:`gen.geometry.section.Section`, mm) as DXF; returns bytes."""
-    data = dxf_bytes(section, name)
+    data = dxf_bytes(section, name, curves, tol)
     write_atomic(path, data)
     return len(data)
 
@@ -117,4 +147,5 @@ def write_part(part, path: str, made) -> int | None:
     """The part's flat section as DXF, or None when it has none."""
     if part.section is None:
         return None
-    return write_dxf(part.section, path, part.name)
+    return write_dxf(part.section, path, part.name, made.options.get("dxf_curves", "spline"),
+                     part.chord_tol)

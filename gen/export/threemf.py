@@ -16,6 +16,7 @@ stamp and fixed permissions, and coordinates are printed with a fixed number of 
 from __future__ import annotations
 
 import io
+import os
 import zipfile
 from xml.sax.saxutils import quoteattr
 
@@ -106,10 +107,15 @@ def write_3mf(items, path: str) -> int:
     """Write ``items`` = [(name, trimesh mesh in mm), ...] as one 3MF file; returns its size.
 
     Each mesh becomes one object and one build item, placed where its coordinates put it
-    (arrange parts on a plate first with :func:`gen.triangles.plate.arrange`).
+    (arrange parts on a plate first with :func:`gen.triangles.plate.arrange`). The bytes are
+    re-read and every object checked (closed, no degenerate facet, positive volume:
+    :mod:`gen.export.readback`) before they replace ``path``.
     """
-    data = threemf_bytes(list(items))
-    write_atomic(path, data)
+    from gen.export.readback import verifier
+
+    items = list(items)
+    data = threemf_bytes(items)
+    write_atomic(path, data, verifier("3mf", len(items), os.path.basename(path)))
     return len(data)
 
 
@@ -123,3 +129,14 @@ def read_3mf(path: str):
     import trimesh
 
     return trimesh.load(path, force="mesh")
+
+
+def read_3mf_objects(path: str):
+    """[(name, vertices, faces)] of every object of a 3MF file read by trimesh, by name."""
+    import trimesh
+
+    with open(path, "rb") as fh:
+        loaded = trimesh.load(fh, file_type="3mf", process=False)
+    items = sorted(loaded.geometry.items()) if isinstance(loaded, trimesh.Scene) \
+        else [("", loaded)]
+    return [(name, np.asarray(m.vertices), np.asarray(m.faces)) for name, m in items]

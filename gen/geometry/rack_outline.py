@@ -131,3 +131,33 @@ def rack_loop(sizes: RackSizes, rack: BasicRack) -> Loop:
     curves.append(Line(tuple(start), (0.0, -h)))
     return Loop(tuple(c for c in curves if not (isinstance(c, Line) and
                                                  math.dist(c.p0, c.p1) < 1e-12)))
+
+
+def whole_pitch_length(length: float, pitch: float) -> float:
+    """``length`` rounded to the nearest whole number (at least one) of pitches (mm)."""
+    return max(1, int(round(length / pitch))) * pitch
+
+
+def joint_pitch_error(length: float, pitch: float) -> float:
+    """Pitch error at the joint of two equal rack sections butted end to end (mm).
+
+    The second section's tooth spaces sit ``length`` further on; the pitch continues across
+    the joint when ``length`` is a whole number of pitches. The error is ``length − N·p`` with
+    N the nearest whole number: how far the second section's teeth are from where the first
+    section's pitch puts them (positive: too far)."""
+    return length - round(length / pitch) * pitch
+
+
+def extended_loop(sizes: RackSizes, rack: BasicRack, extra: float) -> tuple[Loop, float]:
+    """A rack loop reaching at least ``extra`` mm past both ends, teeth in the same phase.
+
+    Returns (loop, e): the loop runs from x = −e to x = length + e, e a whole number of pitches
+    ≥ ``extra``; trimming it at x = 0 and x = length gives back the rack. Used for slanted
+    (helical, herringbone) racks, whose sheared sections are cut flat at the ends."""
+    from dataclasses import replace
+
+    n = max(1, int(math.ceil(extra / sizes.pitch - 1e-12)))
+    e = n * sizes.pitch
+    longer = replace(sizes, length=sizes.length + 2 * e, teeth=sizes.teeth + 2 * n)
+    loop = rack_loop(longer, rack)
+    return Loop(tuple(_shift(c, -e) for c in loop.curves)), e

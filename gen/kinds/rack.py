@@ -1,7 +1,12 @@
 """Part kind ``rack``: straight-tooth rack with the ISO 53 basic rack form.
 
 Rack along +X, tips toward +Y, pitch line on y = 0, back on y = −height, bottom face on
-z = 0, face width along +Z.
+z = 0, face width along +Z. The ends are planes at x = 0 and x = length, also for slanted
+(helical, herringbone) teeth: their sheared section is built past both ends and cut there.
+
+``ends: whole_pitches`` rounds the length to a whole number of pitches so that sections
+butt together with the pitch continuing across the joint; the pitch error at such a joint
+(``length − N·p``) is reported in the sizes as ``joint_pitch_error``.
 """
 
 from __future__ import annotations
@@ -11,8 +16,9 @@ import math
 from gen.errors import GeometryError
 from gen.geometry.basic_rack import basic_rack
 from gen.geometry.body import Body, Prism
-from gen.geometry.rack_outline import rack_loop, rack_sizes
-from gen.geometry.section import Section
+from gen.geometry.rack_outline import (extended_loop, joint_pitch_error, rack_loop, rack_sizes,
+                                       whole_pitch_length)
+from gen.geometry.section import Line, Loop, Section
 from gen.params.schema import REQUIRED, Key
 from gen.kinds import common_keys as K
 from gen.kinds.base import Formula, Part, RackMate, Role
@@ -34,7 +40,10 @@ RACK_KEYS = (K.MODULE, K.PRESSURE_ANGLE, K.PROFILE, K.FACE_WIDTH, K.BACKLASH_ALL
              Key("length", "float", None, lo=0, hi=5000, lo_open=True, unit="mm"),
              Key("teeth", "int", None, lo=1, hi=5000),
              Key("height", "float", REQUIRED, lo=0, hi=1000, lo_open=True, unit="mm",
-                 doc="pitch line to the back face"))
+                 doc="pitch line to the back face"),
+             Key("ends", "enum", "as_given", choices=("as_given", "whole_pitches"),
+                 doc="whole_pitches: length rounded to whole pitches, so sections butt "
+                     "together with the pitch continuing across the joint"))
 KEYS = RACK_KEYS + (
     Key("helix_angle", "angle", 0.0, lo=0, hi=0, doc="straight racks have none; use helical_rack"),
     Key("module_basis", "enum", "normal", choices=("normal",)),
@@ -46,8 +55,11 @@ def make_rack(name, values, where, *, kind, beta=0.0, hand=None, chevron=False):
         raise where.error("length", "give either length (mm) or teeth, not both or neither")
     rack = basic_rack(values["profile"]).with_alpha(values["pressure_angle"])
     m = values["module"]
+    length = values["length"]
+    if length is not None and values["ends"] == "whole_pitches":
+        length = whole_pitch_length(length, math.pi * m / math.cos(beta))
     try:
-        sizes = rack_sizes(m, rack, height=values["height"], length=values["length"],
+        sizes = rack_sizes(m, rack, height=values["height"], length=length,
                            teeth=values["teeth"], beta=beta,
                            thinning=values["backlash_allowance"]
                            + 2.0 * K.fit_of(values)["flank_clearance"])
@@ -69,11 +81,25 @@ def make_rack(name, values, where, *, kind, beta=0.0, hand=None, chevron=False):
         shear = rack_shear(beta, mates_with=opposite(hand))
     else:
         shear = 0.0
-    body = Body((Prism(Section(loop), 0.0, values["face_width"], shear=shear, chevron=chevron),))
+    fw = values["face_width"]
+    if shear:
+        # slanted teeth: build the section past both ends by the largest slant, cut flat there
+        reach = abs(shear) * (fw / 2.0 if chevron else fw)
+        long_loop, e = extended_loop(sizes, rack, reach + m)
+        y0, y1 = -sizes.height - 1.0, sizes.addendum + 1.0
+        x0, x1 = -e - reach - 1.0, sizes.length + e + reach + 1.0
+        cuts = tuple(Prism(Section(Loop((Line((a, y0), (b, y0)), Line((b, y0), (b, y1)),
+                                         Line((b, y1), (a, y1)), Line((a, y1), (a, y0))))),
+                           -1.0, fw + 1.0)
+                     for a, b in ((x0, 0.0), (sizes.length, x1)))
+        body = Body((Prism(Section(long_loop), 0.0, fw, shear=shear, chevron=chevron),), cuts)
+    else:
+        body = Body((Prism(Section(loop), 0.0, fw, shear=shear, chevron=chevron),))
     manifest = {"module": m, "pressure_angle": math.degrees(rack.alpha), "pitch": sizes.pitch,
                 "height": sizes.height, "length": sizes.length, "teeth": sizes.teeth,
                 "face_width": values["face_width"], "tooth_thickness": sizes.s,
-                "addendum": sizes.addendum, "dedendum": sizes.dedendum}
+                "addendum": sizes.addendum, "dedendum": sizes.dedendum,
+                "joint_pitch_error": joint_pitch_error(sizes.length, sizes.pitch)}
     if beta:
         manifest["helix_angle"] = math.degrees(beta)
     chord = values["chord_tolerance"]

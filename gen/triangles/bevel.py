@@ -29,7 +29,13 @@ def bevel_manifold(sizes, bore_diameter: float, flank, tol: float = 0.01):
     teeth = teeth.translate((0.0, 0.0, z_lo))
     r_max = float(blank_rz[:, 0].max())
     segs = max(64, int(math.ceil(math.pi / math.acos(max(-1.0, 1.0 - tol / r_max)))))
+    # a whole number of segments per tooth, turned half a segment: no seam of the revolved
+    # blank falls on a tooth's centre plane, where it met the tooth tip's own vertices and the
+    # intersection left zero-area facets and edges shared by four faces (issue 11)
+    z = int(sizes.z)
+    segs = z * int(math.ceil(segs / z))
     blank = m3d.Manifold.revolve(m3d.CrossSection([blank_rz]), segs)
+    blank = blank.rotate((0.0, 0.0, 180.0 / segs))
     return teeth ^ blank
 
 
@@ -41,8 +47,12 @@ def bevel_triangles(sizes, bore_diameter: float, flank, tol: float = 0.01):
     mesh = bevel_manifold(sizes, bore_diameter, flank, tol).to_mesh()
     tm = trimesh.Trimesh(vertices=np.asarray(mesh.vert_properties)[:, :3],
                          faces=np.asarray(mesh.tri_verts), process=False)
-    if not tm.is_watertight or tm.volume <= 0:
-        raise GeometryError("bevel gear mesh is not watertight")
+    # checked as an STL reader will see it: float32 corners merged by position
+    from gen.geometry.closed_surface import inspect
+
+    rep = inspect(np.asarray(tm.vertices, dtype=np.float32), tm.faces)
+    if not rep.ok:
+        raise GeometryError(f"bevel gear triangles are not a closed solid: {rep.problem()}")
     return tm
 
 

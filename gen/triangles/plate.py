@@ -152,3 +152,29 @@ def arrange(items, plate=DEFAULT_PLATE, spacing: float = DEFAULT_SPACING) -> lis
         out.append(Placed(name=name, mesh=m, offset=(dx, dy), turned=turned,
                           transform=shift @ step @ tf))
     return out
+
+
+def arrange_plates(items, plate=DEFAULT_PLATE,
+                   spacing: float = DEFAULT_SPACING) -> list[list[Placed]]:
+    """Lay every (name, mesh) flat and pack them on as many plates as they need.
+
+    Parts are taken in input order and added to the current plate while :func:`arrange` still
+    packs them all; a part that does not fit starts the next plate. Returns one list of
+    :class:`Placed` per plate (plate coordinates as in :func:`arrange`). Raises GeometryError
+    naming a part whose footprint does not fit even on an empty plate.
+    """
+    items = list(items)
+    for name, mesh in items:          # a part too big for an empty plate: say which
+        arrange([(name, mesh)], plate, spacing)
+    plates: list[list[Placed]] = []
+    current: list = []
+    for item in items:
+        try:
+            arrange(current + [item], plate, spacing)
+            current.append(item)
+        except GeometryError:
+            plates.append(arrange(current, plate, spacing))
+            current = [item]
+    if current:
+        plates.append(arrange(current, plate, spacing))
+    return plates

@@ -1,0 +1,86 @@
+"""Issue 11 item 3: racks end flat at their stated length (slanted teeth cut at x = 0 and
+x = length), ``ends: whole_pitches``, and the pitch error at a joint of two sections."""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+import pytest
+
+from gen.check import check
+from gen.triangles import triangles
+from gen.triangles.prism import slice_polygons
+from gen.validate import measure
+
+RACKS = """parts:
+  hb: {kind: herringbone_rack, module: 2, length: 150, face_width: 12, height: 8,
+       helix_angle: 30, hand: left}
+  hx: {kind: helical_rack, module: 1.5, length: 100, face_width: 8, height: 6,
+       helix_angle: 20, hand: right}
+  hw: {kind: helical_rack, module: 1.5, length: 100, face_width: 8, height: 6,
+       helix_angle: 20, hand: right, ends: whole_pitches}
+  sw: {kind: rack, module: 1, length: 50, face_width: 5, height: 5, ends: whole_pitches}
+"""
+
+
+@pytest.fixture(scope="module")
+def racks(tmp_path_factory):
+    path = tmp_path_factory.mktemp("racks") / "r.yaml"
+    path.write_text(RACKS)
+    result = check([str(path)])
+    assert result.ok, [f.message for f in result.findings if f.severity == "error"]
+    return result.models
+
+
+def _pitch(m, beta_deg):
+    # transverse pitch p_t = π m_n / cos β (ISO 21771, from memory)
+    return math.pi * m / math.cos(math.radians(beta_deg))
+
+
+@pytest.mark.parametrize("name,length,fw", [("hb", 150.0, 12.0), ("hx", 100.0, 8.0)])
+def test_slanted_rack_ends_are_planes_at_0_and_length(racks, name, length, fw):
+    part = racks[name]
+    tm = triangles(part.shape, part.chord_tol)
+    lo, hi = tm.bounds
+    # the issue measured 152.8 mm for the 150 mm herringbone rack; the ends must be planes
+    assert lo[0] == pytest.approx(0.0, abs=1e-9) and hi[0] == pytest.approx(length, abs=1e-9)
+    assert tm.is_watertight and tm.volume > 0
+    for z in (0.0, 0.25 * fw, 0.5 * fw, fw):      # every slice spans exactly [0, length]
+        outer = max(slice_polygons(tm, min(max(z, 1e-6), fw - 1e-6)), key=len)
+        assert outer[:, 0].min() == pytest.approx(0.0, abs=1e-6)
+        assert outer[:, 0].max() == pytest.approx(length, abs=1e-6)
+    # the end faces are flat and full height: back corner to the pitch line at both ends
+    for x in (0.0, length):
+        on_end = np.abs(tm.vertices[:, 0] - x) < 1e-9
+        assert tm.vertices[on_end, 1].min() == pytest.approx(-part.sizes["height"], abs=1e-9)
+
+
+def test_teeth_keep_their_pitch_after_the_ends_are_cut(racks):
+    part = racks["hx"]
+    tm = triangles(part.shape, part.chord_tol)
+    outer = max(slice_polygons(tm, 1e-6), key=len)
+    teeth = measure.rack_teeth_on_line(outer, 0.0, -6.0)
+    p = _pitch(1.5, 20.0)
+    whole = teeth[(teeth[:, 0] > 1e-6) & (teeth[:, 1] < 100.0 - 1e-6)]
+    assert len(whole) >= 19
+    assert np.diff(whole.mean(axis=1)) == pytest.approx(np.full(len(whole) - 1, p), abs=1e-5)
+
+
+def test_whole_pitches_and_joint_error(racks):
+    p = _pitch(1.5, 20.0)
+    n = round(100.0 / p)                             # nearest whole number of pitches
+    assert racks["hw"].sizes["length"] == pytest.approx(n * p, abs=1e-9)
+    assert racks["hw"].sizes["joint_pitch_error"] == pytest.approx(0.0, abs=1e-9)
+    # as given: a second section butted on is displaced by L − N·p (computed)
+    assert racks["hx"].sizes["joint_pitch_error"] == pytest.approx(100.0 - n * p, abs=1e-9)
+    assert racks["sw"].sizes["length"] == pytest.approx(16 * math.pi, abs=1e-9)  # 50/π → 16
+
+
+def test_helical_rack_solid_ends_at_its_length(racks):
+    pytest.importorskip("cadquery")
+    from gen.solid import solid
+
+    bb = solid(racks["hx"].shape).BoundingBox()
+    # the kernel's bounding box carries the edge tolerance (1e-7 mm) on each side
+    assert bb.xmin == pytest.approx(0.0, abs=1e-6) and bb.xmax == pytest.approx(100.0, abs=1e-6)

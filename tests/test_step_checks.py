@@ -1,0 +1,77 @@
+"""Issue 11 items 2 and 4: full shape analysis before STEP export, re-read of the written
+STEP, and one product per placed solid in an assembly STEP."""
+
+from __future__ import annotations
+
+import os
+import re
+
+import numpy as np
+import pytest
+
+cq = pytest.importorskip("cadquery")
+
+from gen.errors import ExportError  # noqa: E402
+from gen.export.step import (analyse_shape, read_step_shape, write_step,  # noqa: E402
+                             write_step_assembly)
+from gen.tolerances import TOL  # noqa: E402
+
+
+@pytest.fixture(scope="module")
+def block():
+    return cq.Solid.makeBox(10.0, 20.0, 5.0)
+
+
+def test_a_box_passes_the_full_analysis(block):
+    rep = analyse_shape(block.wrapped)
+    assert rep.errors() == [] and rep.warnings() == []
+    assert rep.valid and rep.solids == 1 and rep.free_edges == 0 and rep.no_pcurve == 0
+    # a box has 12 edges, each bounding 2 faces: 24 edge/face pairs (common practice)
+    assert rep.edge_face_pairs == 24
+    assert rep.max_curve_on_surface < 1e-9
+    assert rep.volume == pytest.approx(1000.0, rel=1e-12)    # a·b·c (computed)
+
+
+def test_an_open_shell_and_loose_tolerances_are_refused(block, tmp_path):
+    from OCP.ShapeFix import ShapeFix_ShapeTolerance
+
+    shell = cq.Shell.makeShell(block.Faces()[:5])            # one face missing
+    rep = analyse_shape(shell.wrapped)
+    assert rep.free_edges == 4 and any("free edges" in e for e in rep.errors())
+    loose = block.copy()
+    ShapeFix_ShapeTolerance().SetTolerance(loose.wrapped, 100 * TOL.edge_tolerance)
+    rep = analyse_shape(loose.wrapped)
+    assert rep.max_edge_tolerance == pytest.approx(100 * TOL.edge_tolerance)
+    assert any("tolerance" in e for e in rep.errors())
+    path = str(tmp_path / "b.step")
+    write_step(block, path, "b")
+    good = open(path, "rb").read()
+    with pytest.raises(ExportError, match="shape analysis"):
+        write_step(loose, path, "b")
+    assert open(path, "rb").read() == good                   # the earlier file stays
+    assert not [n for n in os.listdir(tmp_path) if n.startswith(".partial-")]
+
+
+def test_written_step_re_reads_to_the_same_solid(block, tmp_path):
+    path = str(tmp_path / "b.step")
+    write_step(block, path, "b")
+    back = analyse_shape(read_step_shape(path))
+    assert back.errors() == [] and back.solids == 1
+    assert back.volume == pytest.approx(1000.0, rel=1e-9)
+
+
+def test_every_placed_solid_is_its_own_product(block, tmp_path):
+    # the same solid placed twice (as the two inputs of a differential): two products, each
+    # named after its part, not one product the second placement refers to
+    items = []
+    for i, name in enumerate(("wrist_input_1", "wrist_input_2")):
+        T = np.eye(4)
+        T[0, 3] = 30.0 * i
+        items.append((name, block, T))
+    path = str(tmp_path / "pair.step")
+    write_step_assembly(items, path, "pair")
+    text = open(path, encoding="utf-8", errors="replace").read()
+    products = re.findall(r"PRODUCT\('([^']*)'", text)
+    assert "wrist_input_1" in products and "wrist_input_2" in products
+    back = analyse_shape(read_step_shape(path))
+    assert back.solids == 2 and back.volume == pytest.approx(2000.0, rel=1e-9)
