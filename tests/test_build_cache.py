@@ -2,7 +2,6 @@
 job order (gen.build.run), polyline thinning (gen.triangles.prism), a light ``--help``.
 No CAD kernel."""
 
-import json
 import math
 import os
 import subprocess
@@ -57,7 +56,7 @@ def test_identical_parts_share_one_triangulation(monkeypatch):
         made.append(model.name)
         return "tri"
 
-    def fake_export(model, out, formats):
+    def fake_export(model, out, formats, options=None):
         from gen.build import export as ex
 
         return SimpleNamespace(name=model.name, tri=ex.make_triangles(model))

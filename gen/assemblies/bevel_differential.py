@@ -62,9 +62,17 @@ KEYS = (
 
 
 def _gear_values(values, which: str) -> dict:
+    """The values of one gear of the differential: everything that fixes its geometry (the
+    build's parameter hash groups parts by these, so equal values must mean equal gears)."""
+    own, mate = ("input", "output") if which == "input" else ("output", "input")
+    shift = values["profile_shift"] if which == "input" else -values["profile_shift"]
     return {"bore": values[f"{which}_bore"], "chord_tolerance": values["chord_tolerance"],
             "module": values["module"], "face_width": values["face_width"],
-            "material": values["material"]}
+            "material": values["material"], "member": which,
+            "teeth": values[f"{own}_teeth"], "mating_teeth": values[f"{mate}_teeth"],
+            "pressure_angle": values["pressure_angle"], "profile": values["profile"],
+            "profile_shift": shift, "backlash_allowance": values["backlash_allowance"],
+            "outputs": values["outputs"]}
 
 
 def build(entry, where) -> tuple[Assembly, dict]:

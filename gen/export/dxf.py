@@ -99,8 +99,8 @@ def dxf_bytes(section, name: str, curves: str = "spline", tol: float = 0.01) -> 
         # the file's bytes) followed Python's string-hash seed
         from ezdxf.sections.classes import REQ_R2000
 
-        for name in REQ_R2000:   # the library's full list, in its order
-            doc.classes.add_class(name)
+        for cls in REQ_R2000:   # the library's full list, in its order
+            doc.classes.add_class(cls)
         doc.header["$INSUNITS"] = INSUNITS_MM
         doc.header["$MEASUREMENT"] = 1   # metric
         doc.header["$LUNITS"] = 2        # decimal
