@@ -143,9 +143,12 @@ def render(result, *, out_dir=None, outcomes=None, title="pitchline build report
     outcomes = outcomes or {}
     groups, owned = [], set()
 
+    def key(f):
+        return (f.severity, f.code, f.message, f.subject)
+
     def group(aid, label, findings):
         groups.append((aid, label, list(findings)))
-        owned.update(id(f) for f in findings)
+        owned.update(key(f) for f in findings)
 
     cards = []
     for name in sorted(models):
@@ -164,7 +167,7 @@ def render(result, *, out_dir=None, outcomes=None, title="pitchline build report
     trains = [drivetrain_item(d) for d in result.drivetrains]
     for d in result.drivetrains:
         group(anchor("train", d.name), d.name, d.findings)
-    loose = [f for f in result.findings if id(f) not in owned]
+    loose = [f for f in result.findings if key(f) not in owned]
     project = ""
     if loose:
         group("project", "project", loose)

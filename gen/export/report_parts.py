@@ -35,6 +35,9 @@ def anchor(kind: str, name: str) -> str:
 
 
 def fmt(v) -> str:
+    """Short display text of a number, flag, list or word (HTML-escaped)."""
+    if isinstance(v, (list, tuple)):
+        return "[" + ", ".join(fmt(x) for x in v) + "]"
     if isinstance(v, bool):
         return "yes" if v else "no"
     if isinstance(v, (int, np.integer)):
