@@ -42,8 +42,14 @@ def _n(v: float) -> str:
     return "0" if s in ("-0", "") else s
 
 
+def _n3(v: float) -> str:
+    s = f"{v:.3f}".rstrip("0").rstrip(".")
+    return "0" if s in ("-0", "") else s
+
+
 def _d(poly) -> str:
-    return "M " + " ".join(f"{_n(x)} {_n(y)}" for x, y in poly) + " Z"
+    """Closed SVG path of a polygon (mm, to 0.001 mm: far finer than any screen or print)."""
+    return "M " + " ".join(f"{_n3(x)} {_n3(y)}" for x, y in poly) + " Z"
 
 
 def _rot(p, a):

@@ -129,7 +129,9 @@ def part_card(part, outcome=None, out_dir=None) -> str:
         caption = f"shaded from {escape(stl)} as written"
     else:
         pic = outline_svg(part, aid + "-outline")
-        caption = "measured outline (no file written)"
+        caption = ("Tredgold virtual outline on the back cone, large end (no file written)"
+                   if part.outline is None and role == "bevel_gear" else
+                   "measured outline (no file written)")
     sizes = {k: v for k, v in part.sizes.items() if not isinstance(v, (list, tuple, dict))
              and v is not None}
     first = [(k.replace("_", " "), fmt(sizes[k])) for k in KEY_SIZES if k in sizes]

@@ -18,9 +18,11 @@ bytes (no time stamps in the PNG).
 from __future__ import annotations
 
 import math
+import os
 import struct
 import zlib
 from dataclasses import dataclass
+from functools import lru_cache
 
 import numpy as np
 
@@ -206,8 +208,18 @@ def png_bytes(img: np.ndarray) -> bytes:
 
 def read_stl(path: str):
     """(vertices (n, 3), faces (m, 3)) of a binary or ASCII STL file, read back with trimesh
-    (merged vertices)."""
+    (merged vertices). A file read once is kept while its size and modification time stay
+    the same (a part card and an assembly view read the same file)."""
+    st = os.stat(path)
+    return _read_stl(os.path.abspath(path), st.st_size, st.st_mtime_ns)
+
+
+@lru_cache(maxsize=64)
+def _read_stl(path: str, size: int, mtime: int):
     import trimesh
 
     mesh = trimesh.load(path, file_type="stl", force="mesh", process=True)
-    return np.asarray(mesh.vertices, float), np.asarray(mesh.faces, np.int64)
+    v, f = np.asarray(mesh.vertices, float), np.asarray(mesh.faces, np.int64)
+    v.setflags(write=False)
+    f.setflags(write=False)
+    return v, f
