@@ -119,4 +119,4 @@ def test_a_worker_killed_mid_build_is_survived(catalogue, cluster, tmp_path):
     got, ref = _files(out), _files(local)
     assert len(got) == 40 and got == {n: ref[n] for n in got}
     # no partial or temporary file is left in the output folder
-    assert sorted(os.listdir(out)) == sorted(["manifest.json"] + [f"{n}.stl" for n in got])
+    assert sorted(os.listdir(out)) == sorted(["manifest.json", "report.html"] + [f"{n}.stl" for n in got])

@@ -32,7 +32,7 @@ BASE = {"errors", "findings", "tolerances"}
 DECLARED = {
     "cadquery": {"solid", "export/step.py"},
     "OCP": {"solid", "export/step.py"},
-    "trimesh": {"triangles", "export/stl.py", "export/threemf.py"},
+    "trimesh": {"triangles", "export/stl.py", "export/threemf.py", "export/report_raster.py"},
     "manifold3d": {"triangles"},
     "shapely": {"validate"},
     "ezdxf": {"export/dxf.py"},

@@ -81,10 +81,10 @@ def run(args) -> int:
         print(f"plates: {names}")
     if report.removed:
         print(f"removed files the manifest no longer lists: {', '.join(report.removed)}")
-    if result.pairs:
-        from gen.cli.check import write_report
+    from gen.cli.check import write_report
 
-        write_report(os.path.join(args.out, "report.html"), result)
+    write_report(os.path.join(args.out, "report.html"), result, out_dir=args.out,
+                 outcomes=report.outcomes)
     built = sum(o.status == "built" for o in report.outcomes.values())
     kept = sum(o.status == "up_to_date" for o in report.outcomes.values())
     failed = sum(o.status == "failed" for o in report.outcomes.values())

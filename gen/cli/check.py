@@ -14,8 +14,8 @@ def register(sub):
     p.add_argument("paths", nargs="*", default=["params"], metavar="PATH",
                    help="parameter files or folders of them (default: params)")
     p.add_argument("--json", action="store_true", help="print the results as JSON")
-    p.add_argument("--report", metavar="FILE.html", help="also write an HTML page with a picture "
-                   "of every mesh")
+    p.add_argument("--report", metavar="FILE.html", help="also write an HTML page drawing every "
+                   "part, mesh, belt drive and assembly")
     p.add_argument("-v", "--verbose", action="store_true", help="also list the notes")
     p.set_defaults(func=run)
 
@@ -113,20 +113,13 @@ def json_doc(result) -> dict:
     }
 
 
-def write_report(path: str, result) -> None:
-    from gen.export.report_html import ReportEntry, pair_rows, write_report as write_html
-    from gen.export.report_svg import mesh_svg
+def write_report(path: str, result, *, out_dir=None, outcomes=None) -> None:
+    """The whole-build page (issue 18): every part, mesh, belt drive, assembly and drive train.
+    After a build, ``out_dir`` and ``outcomes`` let it draw the parts from the files written."""
+    from gen.export.report_build import write
 
-    entries = []
-    for p in result.pairs:
-        pic = p.get("picture")
-        if pic is None:
-            entries.append(ReportEntry(p["name"], "", (), tuple(p["findings"])))
-            continue
-        poly1, poly2, pr, sw, rack = pic
-        svg = mesh_svg(poly1, poly2, pr, sw, rack=rack, title=p["name"])
-        entries.append(ReportEntry(p["name"], svg, pair_rows(pr, sw), tuple(p["findings"])))
-    write_html(path, entries, title="pitchline mesh check")
+    title = "pitchline build report" if out_dir else "pitchline check report"
+    write(path, result, out_dir=out_dir, outcomes=outcomes, title=title)
 
 
 def run(args) -> int:

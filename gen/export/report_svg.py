@@ -29,12 +29,13 @@ _STYLE = {
     "panel": "#ffffff",
     "frame": "#cfc8b6",
     "ink": "#26292e",
-    "fill1": "#9cc3bd", "line1": "#24524d",
-    "fill2": "#e9cf9c", "line2": "#7b5219",
-    "pitch": "#3b3f46",
-    "base": "#6d5fa6",
-    "action": "#c2362c",
-    "coast": "#e0a39c",
+    # Okabe–Ito palette (Okabe & Ito 2008), lightened for fills: colour-blind safe
+    "fill1": "#A9D5F2", "line1": "#0072B2",
+    "fill2": "#F3CF80", "line2": "#8A5F00",
+    "pitch": "#000000",
+    "base": "#555555",
+    "action": "#D55E00",
+    "coast": "#E69F00",
     "tight": "#111111",
 }
 

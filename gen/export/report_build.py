@@ -1,0 +1,194 @@
+"""Compose the whole-build report from a check result (and, after a build, the part outcomes
+and the output folder): parts, meshes, belt drives, assemblies and drive trains.
+
+The result is taken as it comes (duck-typed: ``models``, ``pairs``, ``drives``,
+``assemblies``, ``drivetrains``, ``findings``), so this module imports nothing above
+:mod:`gen.export`. Without ``out_dir`` (``pitchline check --report``) parts are drawn from
+their measured outlines; with it, from the STL files written there.
+"""
+
+from __future__ import annotations
+
+from html import escape
+
+from gen.export.report_page import page, stage_table
+from gen.export.report_parts import anchor, findings_html, fmt, part_card, table
+
+
+def _scene_svg(scene) -> str:
+    from gen.export.report_motion import scene_svg, with_overlap
+
+    return scene_svg(with_overlap(scene))
+
+
+def _numbers_rows(numbers: dict):
+    rows = []
+    for k, v in numbers.items():
+        if v is None or isinstance(v, dict):
+            continue
+        if isinstance(v, (list, tuple)):
+            v = ", ".join(fmt(x) for x in v)
+        else:
+            v = fmt(v)
+        rows.append((k.replace("_", " "), v))
+    return rows
+
+
+def mesh_item(p, models) -> str:
+    """One declared mesh: the pair drawing, the moving mesh, its numbers and findings."""
+    from gen.export.report_html import pair_rows
+    from gen.export.report_motion import bevel_scene, internal_scene, pair_scene
+    from gen.export.report_svg import mesh_svg
+
+    name = p["name"]
+    figs, rows = [], _numbers_rows(p.get("numbers") or {})
+    pic = p.get("picture")
+    a, b = (models.get(n) for n in p["parts"])
+    try:
+        if pic is not None:
+            poly1, poly2, pr, sw, rack = pic
+            figs.append(mesh_svg(poly1, poly2, pr, sw, rack=rack, title=name))
+            names = tuple(p["parts"])
+            if a is not None and a.role.value == "rack":
+                names = names[::-1]
+            figs.append(_scene_svg(pair_scene(poly1, poly2, pr, rack, name, names)))
+            rows = list(pair_rows(pr, sw))
+        elif a is not None and b is not None and {a.role.value, b.role.value} == {"bevel_gear"}:
+            scene, _ = bevel_scene(a, b, f"{name} (on the back cones)")
+            figs.append(_scene_svg(scene))
+        elif a is not None and b is not None and "internal_gear" in (a.role.value, b.role.value):
+            figs.append(_scene_svg(_internal(a, b, (p.get("numbers") or {}).get(
+                "center_distance"), name)))
+    except Exception as exc:   # a drawing that cannot be made is said on the page
+        figs.append(f'<p class="muted">no drawing: {escape(str(exc))}</p>')
+    return (f'<article class="item" id="{anchor("mesh", name)}"><h3>{escape(name)}</h3>'
+            f'<div class="figs">{"".join(figs)}</div>{table(rows)}'
+            f'{findings_html(p["findings"])}</article>')
+
+
+def _internal(a, b, center, title):
+    from gen.geometry.internal_pair import mesh_internal
+    from gen.export.report_motion import internal_scene
+
+    pin, ring = (a, b) if a.role.value == "external_gear" else (b, a)
+    pr = mesh_internal(pin.mate.sizes, ring.mate.sizes, center, check_radial=False)
+    r = float(ring.sizes.get("rim_outside_diameter", 0)) / 2.0 or pr.root_radii[1] * 1.1
+    return internal_scene(pin.outline, ring.outline, pr, r, title, (pin.name, ring.name))
+
+
+def drive_item(d, models) -> str:
+    from gen.export.report_belt import belt_svg
+
+    sol = d["solution"]
+    outl = tuple(models[n].outline if n in models else None for n in (d.get("pulleys") or ()))
+    svg = belt_svg(sol, title=d["name"], outlines=outl if len(outl) == 2 else (None, None))
+    keep = ("belt_teeth", "belt_length", "center_distance", "requested_center", "ratio",
+            "wrap_angle", "teeth_in_mesh", "span_length", "center_min", "center_max",
+            "adjust_pct")
+    nums = sol.as_dict()
+    rows = _numbers_rows({k: nums[k] for k in keep if k in nums})
+    return (f'<article class="item" id="{anchor("drive", d["name"])}"><h3>{escape(d["name"])}'
+            f'</h3><div class="figs">{svg}</div>{table(rows)}{findings_html(d["findings"])}'
+            f"</article>")
+
+
+def assembly_item(a, models, outcomes, out_dir) -> str:
+    from gen.export.report_assembly import assembly_html
+    from gen.export.report_motion import bevel_scene, pair_scene
+
+    aid = anchor("assembly", a.name)
+    extra = []
+    roles = a.parts
+    try:
+        if "input_1" in roles and "output_1" in roles:
+            m1, m2 = models[roles["input_1"]], models[roles["output_1"]]
+            scene, _ = bevel_scene(m1, m2, f"{m1.name} + {m2.name} (on the back cones)")
+            extra.append(_scene_svg(scene))
+        if "sun" in roles and "planet_1" in roles and "ring" in roles:
+            from gen.geometry.pair import mesh_pair
+
+            sun, pl, ring = (models[roles[k]] for k in ("sun", "planet_1", "ring"))
+            c = a.sizes.get("sun_planet_center_distance")
+            pr = mesh_pair(sun.mate.sizes, pl.mate.sizes, c)
+            extra.append(_scene_svg(pair_scene(sun.outline, pl.outline, pr, None,
+                                               f"{sun.name} + {pl.name}", (sun.name, pl.name))))
+            extra.append(_scene_svg(_internal(pl, ring, a.sizes.get(
+                "planet_ring_center_distance"), f"{pl.name} in {ring.name}")))
+    except Exception as exc:
+        extra.append(f'<p class="muted">no mesh drawing: {escape(str(exc))}</p>')
+    members = ", ".join(f'<a href="#{anchor("part", n)}">{escape(n)}</a>'
+                        for n in a.parts.values())
+    return (f'<article class="item" id="{aid}"><h3>{escape(a.name)} <small>{escape(a.kind)}'
+            f'</small></h3><p>parts: {members}</p>'
+            f'{assembly_html(a, models, outcomes, out_dir, aid)}'
+            f'<div class="figs">{"".join(extra)}</div>{findings_html(a.findings)}</article>')
+
+
+def drivetrain_item(d) -> str:
+    n = d.numbers
+    if "stages" in n:
+        head = [("total ratio", fmt(n["total_ratio"])), ("efficiency", fmt(n["efficiency"])),
+                ("output", f"{fmt(n['output_torque'])} N·m at {fmt(n['output_speed'])} rpm"),
+                ("weakest", escape(str(n.get("weakest"))))]
+        body = table(head) + stage_table(n)
+    else:
+        body = table(_numbers_rows(n))
+    return (f'<article class="item" id="{anchor("train", d.name)}"><h3>{escape(d.name)}</h3>'
+            f"{body}{findings_html(d.findings)}</article>")
+
+
+def render(result, *, out_dir=None, outcomes=None, title="pitchline build report") -> str:
+    """The page's HTML text."""
+    models = result.models
+    outcomes = outcomes or {}
+    groups, owned = [], set()
+
+    def key(f):
+        return (f.severity, f.code, f.message, f.subject)
+
+    def group(aid, label, findings):
+        groups.append((aid, label, list(findings)))
+        owned.update(key(f) for f in findings)
+
+    cards = []
+    for name in sorted(models):
+        m = models[name]
+        cards.append(part_card(m, outcomes.get(name), out_dir))
+        group(anchor("part", name), name, m.findings)
+    meshes = [mesh_item(p, models) for p in result.pairs]
+    for p in result.pairs:
+        group(anchor("mesh", p["name"]), p["name"], p["findings"])
+    drives = [drive_item(d, models) for d in result.drives]
+    for d in result.drives:
+        group(anchor("drive", d["name"]), d["name"], d["findings"])
+    asm = [assembly_item(a, models, outcomes, out_dir) for a in result.assemblies]
+    for a in result.assemblies:
+        group(anchor("assembly", a.name), a.name, a.findings)
+    trains = [drivetrain_item(d) for d in result.drivetrains]
+    for d in result.drivetrains:
+        group(anchor("train", d.name), d.name, d.findings)
+    loose = [f for f in result.findings if key(f) not in owned]
+    project = ""
+    if loose:
+        group("project", "project", loose)
+        project = findings_html(loose)
+    for oc in outcomes.values():
+        if getattr(oc, "findings", None):
+            group(anchor("part", oc.name), oc.name, oc.findings)
+    sections = [
+        ("parts", "Parts", f'<div class="cards">{"".join(cards)}</div>' if cards else ""),
+        ("meshes", "Meshes", "".join(meshes)),
+        ("drives", "Belt drives", "".join(drives)),
+        ("assemblies", "Assemblies", "".join(asm)),
+        ("trains", "Drive trains", "".join(trains)),
+        ("project", "Other findings", project),
+    ]
+    return page(title, groups, sections)
+
+
+def write(path, result, *, out_dir=None, outcomes=None, title="pitchline build report") -> None:
+    """Write the page atomically."""
+    from gen.export.atomic import write_atomic
+
+    write_atomic(str(path), render(result, out_dir=out_dir, outcomes=outcomes,
+                                   title=title).encode("utf-8"))
