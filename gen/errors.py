@@ -46,6 +46,10 @@ class ParamError(PitchlineError):
         return text
 
 
+class UsageError(PitchlineError):
+    """A command-line value cannot be used (exit code 2): an output folder that is a file …"""
+
+
 class GeometryError(PitchlineError):
     """Geometry could not be generated for otherwise well-formed parameters."""
 

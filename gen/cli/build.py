@@ -46,11 +46,18 @@ def run(args) -> int:
             raise ValueError("--jobs takes a whole number ≥ 1")
         try:
             plate = tuple(float(v) for v in args.plate.lower().split("x"))
-            assert len(plate) == 2 and all(v > 0 for v in plate)
-        except (ValueError, AssertionError):
+        except ValueError:
+            plate = ()
+        if len(plate) != 2 or not all(0 < v <= 10000 for v in plate):  # finite, positive, mm
             raise ValueError(f"--plate takes width x depth in mm, like 220x220 (got {args.plate!r})")
     except ValueError as exc:
         print(f"pitchline build: {exc}", file=sys.stderr)
+        return 2
+    from gen.cli.outdir import manifest_problem, missing_needs, prepare_out
+
+    needs = missing_needs(formats)
+    if needs:
+        print(f"pitchline build: {needs[0]}", file=sys.stderr)
         return 2
     result = check(args.paths)
     if not result.ok:
@@ -58,7 +65,12 @@ def run(args) -> int:
         print_findings(result.findings)
         print("nothing was written", file=sys.stderr)
         return 1
-    report = build(result, args.out, formats, force=args.force, jobs=args.jobs,
+    prepare_out(args.out)
+    stale = None if args.force else manifest_problem(args.out)
+    if stale:
+        print(f"note: {os.path.join(args.out, 'manifest.json')} {stale}: treated as absent, "
+              "every part is rebuilt", file=sys.stderr)
+    report = build(result, args.out, formats, force=args.force or bool(stale), jobs=args.jobs,
                    progress=Progress(len(result.models)), plate=plate)
     plate_oc = report.plate
     if plate_oc is not None and not plate_oc.ok:
