@@ -23,7 +23,7 @@ def parser() -> argparse.ArgumentParser:
     for name in COMMANDS:
         try:
             mod = importlib.import_module(f"gen.cli.{name}")
-        except ImportError as exc:  # say so, in the help and when used; never drop it silently
+        except Exception as exc:  # say so, in the help and when used; never drop it silently
             _register_broken(sub, name, exc)
             continue
         mod.register(sub)
