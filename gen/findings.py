@@ -18,6 +18,8 @@ CODES = {
     "export": "writing or building an output failed",
     "no-profile": "the part has no flat profile for a 2-D format",
     "plate": "laying parts out on the build plate failed",
+    # issue 12: inputs refused for the work they would take
+    "work-too-large": "the part's outline or triangles exceed the work budget",
     # part geometry measured against formulas
     "size-mismatch": "a measured size differs from its formula",
     "tooth-count": "the counted teeth differ from the declared count",
