@@ -3,6 +3,10 @@
 from __future__ import annotations
 
 
+#: longest value a message repeats (characters); longer values are cut with "…"
+MAX_SHOWN = 60
+
+
 class PitchlineError(Exception):
     """Base of every error pitchline raises on purpose (never a bare Exception)."""
 
@@ -33,10 +37,17 @@ class ParamError(PitchlineError):
             bits.append(f"key '{self.key}'")
         text = ", ".join(bits) + ": " + self.detail
         if self.value is not None and "got" not in self.detail:
-            text += f" (got {self.value!r})"
+            shown = repr(self.value)
+            if len(shown) > MAX_SHOWN:
+                shown = shown[:MAX_SHOWN - 1] + "…"
+            text += f" (got {shown})"
         if self.allowed:
             text += f"; allowed: {self.allowed}"
         return text
+
+
+class UsageError(PitchlineError):
+    """A command-line value cannot be used (exit code 2): an output folder that is a file …"""
 
 
 class GeometryError(PitchlineError):

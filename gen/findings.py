@@ -20,6 +20,8 @@ CODES = {
     "plate": "laying parts out on the build plate failed",
     # issue 11: outputs checked as written
     "shape-analysis": "the CAD kernel's full shape analysis of an exported solid",
+    # issue 12: inputs refused for the work they would take
+    "work-too-large": "the part's outline or triangles exceed the work budget",
     # part geometry measured against formulas
     "size-mismatch": "a measured size differs from its formula",
     "tooth-count": "the counted teeth differ from the declared count",

@@ -63,6 +63,11 @@ class Limits:
     #: least strength / peak stress of a spinning rotor before a warning (issue 16; common
     #: practice for rotating parts designed on yield, the part's own key can raise it)
     rotor_safety_factor: float = 2.0
+    #: most outline points of one part (issue 12: a 1000-tooth gear has ~126 000; a rack of
+    #: module 0.05 over 5 m, 223 000, builds for minutes) — a work budget, not a standard
+    max_outline_points: int = 150_000
+    #: most estimated triangles of one part (a binary STL of 4 million is 200 MB)
+    max_triangles: int = 4_000_000
 
 
 TOL = Tolerances()

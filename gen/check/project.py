@@ -11,6 +11,7 @@ from gen.errors import ParamError
 from gen.params.project import display_path, RawProject, load_project
 from gen.kinds.base import resolve
 from gen.findings import ERROR, Finding, has_errors
+from gen.validate.budget import work_findings
 
 
 @dataclass
@@ -66,7 +67,10 @@ def check_project(project: RawProject) -> CheckResult:
         except ParamError as exc:
             result.findings.append(_param_finding(exc))
             continue
-        model = model.with_(findings=tuple(_locate(f, raw) for f in model.findings))
+        model = model.with_(findings=tuple(_locate(f, raw) for f in model.findings
+                                           + tuple(work_findings(name, model.kind, model.outline,
+                                                                 model.shape, model.chord_tol,
+                                                                 model.sizes))))
         result.models[name] = model
         result.recipes[name] = ("part", raw, fits)
         result.findings += model.findings

@@ -58,17 +58,32 @@ def parser(argv=None) -> argparse.ArgumentParser:
             continue
         try:
             mod = importlib.import_module(f"gen.cli.{name}")
-        except ModuleNotFoundError:
+        except Exception as exc:  # say so, in the help and when used; never drop it silently
+            _register_broken(sub, name, exc)
             continue
         mod.register(sub)
     return p
+
+
+def _register_broken(sub, name: str, exc: Exception) -> None:
+    """A command whose module cannot be imported: listed as unavailable, exits 2 with why."""
+    why = f"{type(exc).__name__}: {exc}"
+    p = sub.add_parser(name, help=f"(unavailable: {why})", add_help=False)
+    p.add_argument("rest", nargs="*")
+
+    def run(args):
+        print(f"pitchline {name}: this command cannot load ({why}); reinstall pitchline "
+              "with its dependencies", file=sys.stderr)
+        return 2
+
+    p.set_defaults(func=run)
 
 
 def main(argv=None) -> int:
     argv = sys.argv[1:] if argv is None else list(argv)
     p = parser(argv)
     args = p.parse_args(argv)
-    from gen.errors import ParamError, PitchlineError
+    from gen.errors import ParamError, PitchlineError, UsageError
     from gen.params.yamlio import InputError
 
     if not getattr(args, "func", None):
@@ -82,6 +97,9 @@ def main(argv=None) -> int:
     except ParamError as exc:
         print(f"pitchline: {exc.one_line()}", file=sys.stderr)
         return 1
+    except UsageError as exc:
+        print(f"pitchline: {exc}", file=sys.stderr)
+        return 2
     except PitchlineError as exc:
         print(f"pitchline: {exc}", file=sys.stderr)
         return 1
@@ -92,6 +110,16 @@ def main(argv=None) -> int:
     except KeyboardInterrupt:
         print("pitchline: interrupted", file=sys.stderr)
         return 130
+    except (MemoryError, RecursionError) as exc:
+        print(f"pitchline: input too large to process ({type(exc).__name__})", file=sys.stderr)
+        return 2
+    except Exception as exc:  # a bug: one line, the traceback only on request
+        import os
+        if os.environ.get("PITCHLINE_TRACEBACK"):
+            raise
+        print(f"pitchline: internal error (a bug, please report it): {type(exc).__name__}: "
+              f"{exc}; set PITCHLINE_TRACEBACK=1 to see where", file=sys.stderr)
+        return 1
 
 
 if __name__ == "__main__":

@@ -51,11 +51,18 @@ def run(args) -> int:
             raise ValueError("--jobs takes a whole number ≥ 1")
         try:
             plate = tuple(float(v) for v in args.plate.lower().split("x"))
-            assert len(plate) == 2 and all(v > 0 for v in plate)
-        except (ValueError, AssertionError):
+        except ValueError:
+            plate = ()
+        if len(plate) != 2 or not all(0 < v <= 10000 for v in plate):  # finite, positive, mm
             raise ValueError(f"--plate takes width x depth in mm, like 220x220 (got {args.plate!r})")
     except ValueError as exc:
         print(f"pitchline build: {exc}", file=sys.stderr)
+        return 2
+    from gen.cli.outdir import manifest_problem, missing_needs, prepare_out
+
+    needs = missing_needs(formats)
+    if needs:
+        print(f"pitchline build: {needs[0]}", file=sys.stderr)
         return 2
     result = check_files(*args.paths)
     if not result.ok:
@@ -65,7 +72,12 @@ def run(args) -> int:
         return 1
     from gen.build.manifest import project_root
 
-    report = build(result, args.out, formats, force=args.force, jobs=args.jobs,
+    prepare_out(args.out)
+    stale = None if args.force else manifest_problem(args.out)
+    if stale:
+        print(f"note: {os.path.join(args.out, 'manifest.json')} {stale}: treated as absent, "
+              "every part is rebuilt", file=sys.stderr)
+    report = build(result, args.out, formats, force=args.force or bool(stale), jobs=args.jobs,
                    progress=Progress(len(result.models)), plate=plate,
                    executor=args.executor, scheduler=args.scheduler,
                    options={"dxf_curves": args.dxf_curves}, root=project_root(args.paths))

@@ -27,7 +27,7 @@ from dataclasses import dataclass
 from gen.tolerances import TOL
 
 from gen.errors import ExportError
-from gen.export.atomic import temp_path, write_atomic
+from gen.export.atomic import folder_problem, temp_path, write_atomic
 
 _STAMP = re.compile(rb"FILE_NAME\('([^']*)','[^']*'")
 # the writer numbers products per session ('name 2', 'name 4' …): drop the counter
@@ -59,7 +59,9 @@ def _through_file(workdir: str, write, name: str) -> bytes:
     tmp = temp_path(workdir, ".step")
     try:
         if not write(tmp):
-            raise ExportError(f"STEP write failed for {name}")
+            why = folder_problem(workdir)
+            raise ExportError(f"STEP write failed for {name} in {workdir}"
+                              + (f": {why}" if why else ""))
         with open(tmp, "rb") as fh:
             return fh.read()
     finally:

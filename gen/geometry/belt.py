@@ -29,6 +29,12 @@ from gen.findings import ERROR, INFO, WARNING, Finding
 CENTER_TOL = 1e-9
 #: fewest teeth in mesh on the small pulley before a warning (common practice)
 MIN_TEETH_IN_MESH = 6.0
+#: largest center distance (mm) and belt tooth count solved: far beyond any printed drive,
+#: small enough that lengths, tooth counts and their text stay ordinary numbers
+MAX_CENTER = 100_000.0
+MAX_BELT_TEETH = 100_000
+#: largest pulley tooth count solved (the drives: section allows the same)
+MAX_PULLEY_TEETH = 10_000
 
 
 def _check_diameters(D: float, d: float):
@@ -49,10 +55,22 @@ def _length(C: float, D: float, d: float) -> float:
     return 2.0 * C * math.cos(phi) + 0.5 * math.pi * (D + d) + phi * (D - d)
 
 
+def _finite(x, what: str) -> float:
+    """``x`` as a float, or GeometryError naming ``what`` when it is not a finite number."""
+    try:
+        v = float(x)
+    except (TypeError, ValueError, OverflowError):
+        raise GeometryError(f"{what} must be a finite number (got a value too large or not "
+                            "a number)") from None
+    if not math.isfinite(v):
+        raise GeometryError(f"{what} must be a finite number (got {v!r})")
+    return v
+
+
 def _check_center(C: float, D: float, d: float, clearance: float) -> float:
-    C = float(C)
+    C = _finite(C, "center distance")
     c_min = min_center(D, d, clearance)
-    if not math.isfinite(C) or C <= c_min:
+    if C <= c_min:
         raise GeometryError(f"center distance {C:g} mm is too small for pitch diameters "
                             f"{D:.3f} and {d:.3f} mm: it must exceed {c_min:.3f} mm "
                             f"(the pitch circles would touch)")
@@ -103,10 +121,10 @@ def center_for_length(L: float, D: float, d: float, clearance: float = 0.0) -> f
     L(C) increases strictly with C, so the root is unique.
     """
     D, d = _check_diameters(D, d)
-    L = float(L)
+    L = _finite(L, "belt length")
     lo = min_center(D, d, clearance)
     L_min = _length(lo, D, d)
-    if not math.isfinite(L) or L <= L_min:
+    if L <= L_min:
         raise GeometryError(f"belt length {L:g} mm is too short for pitch diameters "
                             f"{D:.3f} and {d:.3f} mm: it must exceed {L_min:.3f} mm")
     hi = 0.5 * L  # L > 2C always
@@ -178,9 +196,11 @@ class DriveSolution:
 
 
 def _whole(n, what: str) -> int:
-    if isinstance(n, bool) or not isinstance(n, (int, float)) or not float(n).is_integer() \
-            or n < 1:
+    if isinstance(n, bool) or not isinstance(n, (int, float)) or n < 1 or \
+            (isinstance(n, float) and not (math.isfinite(n) and n.is_integer())):
         raise GeometryError(f"{what} must be a positive whole number (got {n!r})")
+    if n > MAX_BELT_TEETH:
+        raise GeometryError(f"{what} is too large: at most {MAX_BELT_TEETH} teeth")
     return int(n)
 
 
@@ -221,6 +241,9 @@ def solve_drive(profile, z1: int, z2: int, *, center: float | None = None,
         unknown profile, bad numbers, center too small, belt too short.
     """
     prof = lookup_profile(profile)
+    for z in (z1, z2):
+        if isinstance(z, (int, float)) and not isinstance(z, bool) and z > MAX_PULLEY_TEETH:
+            raise GeometryError(f"pulley tooth count is too large: at most {MAX_PULLEY_TEETH}")
     s1, s2 = pulley_sizes(prof, z1), pulley_sizes(prof, z2)
     p = prof.pitch
     D, d = max(s1.pitch_diameter, s2.pitch_diameter), min(s1.pitch_diameter, s2.pitch_diameter)
@@ -240,7 +263,10 @@ def solve_drive(profile, z1: int, z2: int, *, center: float | None = None,
 
     req_C = req_L = req_N = None
     if center is not None:
-        req_C = float(center)
+        req_C = _finite(center, "center distance")
+        if req_C > MAX_CENTER:
+            raise GeometryError(f"center distance {req_C:g} mm is too large: at most "
+                                f"{MAX_CENTER:g} mm")
         req_L = belt_length(req_C, D, d)
         req_N = req_L / p
         n_belt = _pick_belt(req_L, p, L_min, stock)

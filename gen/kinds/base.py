@@ -171,7 +171,7 @@ def resolve(raw: RawPart, fits: dict | None = None) -> Part:
     ``fits`` maps fit-profile names to their allowances; a part's ``fit: NAME`` is replaced by
     that dict before the kind sees it.
     """
-    where = Where(raw.file, raw.name, raw.line)
+    where = Where(raw.file, raw.name, raw.line, origin=raw.origin)
     mod = kind_module(raw.kind, where)
     values = check_mapping(raw.values, mod.KEYS, where)
     if values.get("fit") is not None:

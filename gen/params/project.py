@@ -30,7 +30,12 @@ SECTIONS = ("parts", "trains", "series", "meshes", "assemblies", "drives", "driv
 #: sections whose entries are mappings, given as a list or by name
 ENTRY_SECTIONS = ("meshes", "assemblies", "drives", "drivetrains", "rotors")
 NAME_RE = re.compile(r"^[A-Za-z0-9][A-Za-z0-9_.-]{0,63}$")
-RESERVED = {"manifest", "report", "plate", "con", "prn", "aux", "nul"}
+#: names of pitchline's own output files
+OWN_OUTPUTS = {"manifest", "report", "plate"}
+#: device names Windows reserves whatever the extension ("con.gear" is as bad as "con")
+#: (Microsoft, "Naming Files, Paths, and Namespaces" — from memory)
+DEVICE_NAMES = {"con", "prn", "aux", "nul"} | {f"{d}{i}" for d in ("com", "lpt") for i in range(10)}
+RESERVED = OWN_OUTPUTS | DEVICE_NAMES
 
 
 @dataclass(frozen=True)
@@ -41,6 +46,12 @@ class RawPart:
     file: str
     train: str | None
     lines: dict           # key -> line
+    inherited: tuple = () # keys whose value the train gives
+
+    def origin(self, key: str | None) -> str | None:
+        """Where an inherited value came from ("train 't'"), None for the part's own."""
+        root = (key or "").split(".")[0]
+        return f"train '{self.train}'" if root in self.inherited else None
 
     def line(self, key: str | None = None) -> int | None:
         if key is not None:
@@ -74,6 +85,7 @@ class RawProject:
     parts: dict = field(default_factory=dict)          # name -> RawPart
     trains: dict = field(default_factory=dict)         # name -> list of part names
     entries: dict = field(default_factory=dict)        # section -> [RawEntry]
+    stems: dict = field(default_factory=dict)          # lower-case output name -> (name, where)
 
 
 def display_path(path: str) -> str:
@@ -102,12 +114,31 @@ def find_files(paths) -> list[str]:
     return out
 
 
+def name_problem(name) -> str | None:
+    """Why ``name`` cannot name a part (its output files), or None when it can.
+
+    Names become file names, so they must be portable: letters, digits, '_', '-', '.', a
+    letter or digit first, no dot last, at most 64 characters, and no Windows device name
+    (CON, PRN, AUX, NUL, COM0–9, LPT0–9) before the first dot.
+    """
+    if not isinstance(name, str) or not NAME_RE.match(name):
+        return ("use letters, digits, '_', '-', '.'; start with a letter or digit; at most "
+                "64 characters")
+    if name.endswith("."):
+        return "a name may not end with a dot (Windows drops it from file names)"
+    stem = name.split(".")[0].lower()
+    if stem in DEVICE_NAMES:
+        return f"'{name.split('.')[0]}' is a device name on Windows, unusable in file names"
+    if name.lower() in OWN_OUTPUTS:
+        return "the name of one of pitchline's own output files"
+    return None
+
+
 def check_name(name, doc: Doc, keys, what="part") -> str:
-    line = doc.line(*keys)
-    if not isinstance(name, str) or not NAME_RE.match(name) or name.lower() in RESERVED:
-        raise ParamError(f"{what} name {name!r} is not allowed: use letters, digits, '_', '-', "
-                         f"'.'; start with a letter or digit; at most 64 characters; not a "
-                         f"reserved name", file=doc.path, line=line)
+    problem = name_problem(name)
+    if problem:
+        raise ParamError(f"{what} name {name!r} is not allowed: {problem}", file=doc.path,
+                         line=doc.line(*keys))
     return name
 
 
@@ -119,6 +150,22 @@ def project_from_mapping(data: dict, name: str = "<python>") -> RawProject:
     proj.files.append(name)
     _read_doc(Doc(path=name, data=data, lines={}), proj)
     return proj
+
+
+def _check_case(proj: "RawProject", name: str, doc: Doc, keys, what: str) -> None:
+    """Refuse a name whose output files would be those of an earlier part or assembly.
+
+    Output files are named after parts and assemblies; names equal but for letter case are
+    one file on Windows and macOS.
+    """
+    other = proj.stems.get(name.lower())
+    if other is not None:
+        same = "differs from" if other[0] != name else "is also"
+        tail = " only in letter case" if other[0] != name else ""
+        raise ParamError(f"{what} name '{name}' {same} {other[2]} '{other[0]}' ({other[1]})"
+                         f"{tail}; their output files would collide", file=doc.path,
+                         line=doc.line(*keys))
+    proj.stems[name.lower()] = (name, f"{display_path(doc.path)}:{doc.line(*keys)}", what)
 
 
 def load_project(paths) -> RawProject:
@@ -160,18 +207,35 @@ def _add_part(proj: RawProject, doc: Doc, name, body, keys, train=None, shared=N
                          key="kind", value=kind)
     values = {k: v for k, v in body.items() if k != "kind"}
     lines = _lines_for(doc, keys, body)
+    inherited = []
     if shared:
         for k, v in shared.items():
+            if k in values and _same(values[k], v):
+                inherited.append(k)   # a pasted part repeating its train's value
+                continue
             if k in values:
                 raise ParamError(f"is set by train '{train}' for all its parts; remove it here "
                                  "or move the part out of the train", file=doc.path,
                                  line=lines.get(k), part=name, key=k, value=values[k])
             values[k] = v
             lines[k] = doc.line("trains", train, k)
+            inherited.append(k)
+    _check_case(proj, name, doc, keys, "part")
     proj.parts[name] = RawPart(name=name, kind=kind, values=values, file=doc.path, train=train,
-                               lines=lines)
+                               lines=lines, inherited=tuple(inherited))
     if train:
         proj.trains[train].append(name)
+
+
+def _same(a, b) -> bool:
+    """Equal as written: numbers by value (2 == 2.0), text ignoring case."""
+    if isinstance(a, bool) or isinstance(b, bool):
+        return a is b
+    if isinstance(a, (int, float)) and isinstance(b, (int, float)):
+        return float(a) == float(b)
+    if isinstance(a, str) and isinstance(b, str):
+        return a.lower() == b.lower()
+    return a == b
 
 
 def _read_doc(doc: Doc, proj: RawProject):
@@ -219,11 +283,19 @@ def _read_doc(doc: Doc, proj: RawProject):
         if section not in data or data[section] is None:
             continue
         value = data[section]
+        if section == "assemblies" and isinstance(value, list):
+            raise ParamError("'assemblies' must be a mapping of names, e.g. "
+                             "'assemblies: {wrist: {kind: bevel_differential, ...}}': each "
+                             "assembly's name names its files", file=doc.path,
+                             line=doc.line(section))
         items = (list(enumerate(value)) if isinstance(value, list) else
                  list(_mapping(value, doc, (section,), f"'{section}'").items()))
         for idx, entry in items:
             if isinstance(idx, str):
-                check_name(idx, doc, (section, idx), what=section.rstrip("s"))
+                what = {"meshes": "mesh", "assemblies": "assembly"}.get(section, section[:-1])
+                check_name(idx, doc, (section, idx), what=what)
+                if section == "assemblies":
+                    _check_case(proj, idx, doc, (section, idx), what)
             entry = _mapping(entry, doc, (section, idx), f"{section} entry {idx}")
             proj.entries.setdefault(section, []).append(
                 RawEntry(section=section, index=idx, values=entry, file=doc.path,

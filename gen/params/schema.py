@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import difflib
 import math
+import sys
 from dataclasses import dataclass, field
 
 from gen.errors import ParamError
@@ -63,10 +64,16 @@ def key_items(key: Key) -> str:
 
 
 class Where:
-    """Context for messages: file, part and a line lookup."""
+    """Context for messages: file, part and a line lookup.
 
-    def __init__(self, file: str, part: str | None, line_of, section: str = "part"):
+    ``origin(key)``, when given, names where an inherited value came from (e.g. "train 't'"),
+    or returns None for a value written on the entry itself.
+    """
+
+    def __init__(self, file: str, part: str | None, line_of, section: str = "part",
+                 origin=None):
         self.file, self.part, self._line_of, self.section = file, part, line_of, section
+        self.origin = origin or (lambda key: None)
 
     def error(self, key: str | None, msg: str, value=None, allowed=None) -> ParamError:
         return ParamError(msg, file=self.file, line=self._line_of(key), part=self.part, key=key,
@@ -126,13 +133,25 @@ def check_value(key: Key, value, where: Where, path: str | None = None):
     if isinstance(value, bool) or not isinstance(value, (int, float)):
         want = "a whole number" if k == "int" else "a number"
         raise where.error(name, f"must be {want}", value, key.range_text())
-    if k == "int" and not isinstance(value, int):
-        raise where.error(name, "must be a whole number", value, key.range_text())
+    if isinstance(value, int) and abs(value) > sys.float_info.max:
+        raise where.error(name, f"number too large (about {int(abs(value).bit_length() * 0.30103) + 1} digits)", None,
+                          key.range_text())
     if not math.isfinite(float(value)):
         raise where.error(name, "must be finite", value, key.range_text())
-    v = float(value) if k != "int" else int(value)
+    v = float(value) if k != "int" else value
     bad = ((key.lo is not None and (v < key.lo or (key.lo_open and v == key.lo))) or
            (key.hi is not None and (v > key.hi or (key.hi_open and v == key.hi))))
+    if bad and key.lo is not None and key.lo == key.hi:
+        # a key held at one value: it exists so trains can pass shared values through
+        came = where.origin(name)
+        raise where.error(name, f"must be {key.lo:g} here" + (f" ({key.doc})" if key.doc else "")
+                          + (f"; the value comes from {came}" if came else ""), value)
+    if k == "int" and not isinstance(value, int):
+        if bad:
+            raise where.error(name, "out of range", value, key.range_text())
+        raise where.error(name, "must be a whole number" +
+                          (f" (write {int(value)})" if value.is_integer() else ""), value,
+                          key.range_text())
     if bad:
         raise where.error(name, "out of range", value, key.range_text())
     if k == "angle":
