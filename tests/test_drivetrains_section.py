@@ -160,3 +160,49 @@ drivetrains:
     (d,) = doc["drivetrains"]
     assert d["total_ratio"] == pytest.approx(2.5)
     assert d["stages"][0]["kind"] == "spur"
+
+
+SCREW = """
+parts:
+  mast_screw: {kind: lead_screw, thread: trapezoidal, diameter: 8, pitch: 2, starts: 1,
+               length: 60, load: 50, free_length: 60}
+  drive_pinion: {kind: spur_gear, module: 1, teeth: 15, profile_shift: 0.3, face_width: 6}
+  drive_wheel: {kind: spur_gear, module: 1, teeth: 30, face_width: 6, bore: 8}
+meshes:
+  - parts: [drive_pinion, drive_wheel]
+drivetrains:
+  mast:
+    motor: {stall_torque: 0.2, no_load_speed: 300}
+    stages: [{mesh: [drive_pinion, drive_wheel]}, {screw: mast_screw}]
+    load: {force: 50}
+"""
+
+
+def test_lead_screw_stage_against_shigley(tmp_path):
+    p = tmp_path / "s.yaml"
+    p.write_text(SCREW)
+    res = check([str(p)])
+    assert res.ok, [f.message for f in res.findings if f.severity == "error"]
+    n = res.drivetrains[0].numbers
+    assert n["linear"] and n["units"] == {"torque": "N", "speed": "mm/s"}
+    # computed (Shigley, Mechanical Engineering Design §8-2, power screws, from memory):
+    # Tr 8×2 single start: d2 = 7 mm, L = 2 mm, α = 15°, f from the part; thread efficiency
+    # e = F L / (2π T_R) with T_R = F d2/2 (L + π f d2 sec α)/(π d2 − f L sec α)
+    import math
+    f = res.models["mast_screw"].sizes["friction"]
+    d2, L, sec = 7.0, 2.0, 1 / math.cos(math.radians(15))
+    TR = 50 * d2 / 2 / 1000 * (L + math.pi * f * d2 * sec) / (math.pi * d2 - f * L * sec)
+    e = 50 * L / 1000 / (2 * math.pi * TR)
+    assert n["efficiency"] == pytest.approx(0.98 * e, rel=1e-9)
+    # i = 2 · 2π/L (rad per m): speed (mm/s) = n_motor / 2 / 60 · L
+    assert n["output_speed"] == pytest.approx(n["motor_speed"] / 2 / 60 * L, rel=1e-9)
+    # π f d2 sec α > L: self-locking, the load holds with the motor off
+    assert math.pi * f * d2 * sec > L and n["hold_limit"] is None
+
+
+def test_a_torque_load_after_a_screw_is_refused(tmp_path):
+    p = tmp_path / "s.yaml"
+    p.write_text(SCREW.replace("load: {force: 50}", "load: {torque: 1}"))
+    res = check([str(p)])
+    (err,) = [f for f in res.findings if f.severity == "error"]
+    assert "key 'load.torque': after a screw or drum the load is a force (N)" in err.message

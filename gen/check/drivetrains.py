@@ -48,6 +48,8 @@ STAGE_KEYS = (
     Key("mesh", "list", None, item="str", count=2, doc="a declared gear pair, driver first"),
     Key("drive", "str", None, doc="a declared belt drive; its first pulley drives"),
     Key("assembly", "str", None, doc="a declared planetary stage"),
+    Key("screw", "str", None, doc="a lead_screw part: turns rotation into travel (last stage)"),
+    Key("drum", "str", None, doc="a cable_drum part: winds a cable (last stage)"),
     Key("ratio", "float", None, lo=0, hi=1e6, lo_open=True,
         doc="a stage not modelled in the file: input speed / output speed"),
     Key("kind", "enum", "spur", choices=("spur", "belt", "bevel", "planetary"),
@@ -60,10 +62,11 @@ STAGE_KEYS = (
 )
 LOAD_KEYS = (
     Key("torque", "float", None, lo=0, hi=1e6, unit="N·m", doc="at the output shaft"),
-    Key("force", "float", None, lo=0, hi=1e7, unit="N", doc="with radius: F·r at the output"),
+    Key("force", "float", None, lo=0, hi=1e7, unit="N",
+        doc="on a screw's nut or a drum's cable; on a shaft, with radius: F·r"),
     Key("radius", "float", None, lo=0, hi=1e5, lo_open=True, unit="mm"),
-    Key("speed", "float", None, lo=0, hi=1e6, lo_open=True, unit="rpm",
-        doc="wanted output speed"),
+    Key("speed", "float", None, lo=0, hi=1e6, lo_open=True, unit="rpm or mm/s",
+        doc="wanted output speed (mm/s after a screw or drum)"),
     Key("inertia", "float", 0.0, lo=0, hi=1e6, unit="kg·m²"),
 )
 DRIVETRAIN_KEYS = (
@@ -150,9 +153,13 @@ def _stage(result, v, where: Where, key: str, shafts: dict):
     """One :class:`gen.geometry.drivetrain.Stage` from a checked stage mapping."""
     from gen.geometry.drivetrain import Stage
 
-    given = [k for k in ("mesh", "drive", "assembly", "ratio") if v[k] is not None]
+    given = [k for k in ("mesh", "drive", "assembly", "screw", "drum", "ratio")
+             if v[k] is not None]
     if len(given) != 1:
-        raise where.error(key, "a stage names exactly one of mesh, drive, assembly or ratio")
+        raise where.error(key, "a stage names exactly one of mesh, drive, assembly, screw, drum "
+                          "or ratio")
+    if v["screw"] is not None or v["drum"] is not None:
+        return _linear_stage(result, v, where, key)
     if v["mesh"] is not None:
         return _gear_stage(result, v["mesh"], where, key, v, shafts)
     if v["drive"] is not None:
@@ -179,6 +186,38 @@ def _stage(result, v, where: Where, key: str, shafts: dict):
                  allowable=v["allowable"], inertia_out=v["inertia"])
 
 
+def _linear_stage(result, v, where, key):
+    """A lead screw (i = 2π/L; efficiency raising, and lowering when the load drives back,
+    Shigley's power-screw relations; allowable the Euler buckling load over its safety factor)
+    or a cable drum (i = 1/r at the cable centre)."""
+    from gen.geometry.drivetrain import cable_drum, lead_screw
+    from gen.geometry.screw_drive import screw_torques
+    from gen.tolerances import LIMITS
+
+    which = "screw" if v["screw"] is not None else "drum"
+    name = v[which]
+    if name not in result.models and name not in result.project.parts:
+        raise where.error(key, f"names unknown part '{name}'")
+    part = result.models.get(name)
+    if part is None:
+        return None
+    want = "lead_screw" if which == "screw" else "cable_drum"
+    if part.kind != want:
+        raise where.error(key, f"part '{name}' is a {part.kind}, not a {want}")
+    sz = part.sizes
+    if which == "drum":
+        return cable_drum(sz["pitch_diameter"], name=name, allowable=v["allowable"])
+    t = screw_torques(1.0, sz["pitch_diameter"], sz["lead"],
+                      math.radians(sz["flank_angle"] / 2.0), sz["friction"])
+    work = sz["lead"] / 1000.0 / (2.0 * math.pi)        # N·m per N of load
+    back = 0.0 if t.self_locking else max(0.0, -t.thread_lower) / work
+    allow = v["allowable"]
+    if allow is None and sz.get("buckling_load"):
+        allow = sz["buckling_load"] / LIMITS.screw_buckling_safety
+    eff = v["efficiency"] if v["efficiency"] is not None else t.thread_efficiency
+    return lead_screw(sz["lead"], eff, name=name, back_efficiency=back, allowable=allow)
+
+
 def _chain(result, v, where, label) -> DrivetrainResult | None:
     from gen.geometry.drivetrain import Load, solve_chain
 
@@ -195,22 +234,28 @@ def _chain(result, v, where, label) -> DrivetrainResult | None:
     lv = v["load"]
     if lv["torque"] is not None and lv["force"] is not None:
         raise where.error("load", "give torque, or force with radius, not both")
-    if lv["force"] is not None:
+    linear = stages[-1].linear
+    if lv["force"] is not None and linear:
+        load = Load(torque=lv["force"], speed=lv["speed"], inertia=lv["inertia"])
+    elif lv["force"] is not None:
         if lv["radius"] is None:
             raise where.error("load.radius", "a force needs the radius it acts at (mm)")
         load = Load.force_at_radius(lv["force"], lv["radius"], speed=lv["speed"],
                                     inertia=lv["inertia"])
+    elif linear and lv["torque"] is not None:
+        raise where.error("load.torque", "after a screw or drum the load is a force (N)")
     else:
         load = Load(torque=lv["torque"] or 0.0, speed=lv["speed"], inertia=lv["inertia"])
     res = solve_chain(motor, stages, load)
+    unit, speed = ("N", "mm/s") if linear else ("N·m", "rpm")
     found = []
     if not res.moves:
         found.append(Finding(ERROR, "chain-stalls", f"the motor cannot move the load: it can "
-                             f"give {res.move_limit:.3g} N·m at the output, the load needs "
-                             f"{load.torque:.3g} N·m", label, SOURCE, key="load"))
+                             f"give {res.move_limit:.3g} {unit} at the output, the load needs "
+                             f"{load.torque:.3g} {unit}", label, SOURCE, key="load"))
     if load.speed is not None and res.moves and res.output_speed < load.speed:
-        found.append(Finding(WARNING, "chain-slow", f"output turns at {res.output_speed:.3g} "
-                             f"rpm, under the wanted {load.speed:g} rpm", label, SOURCE,
+        found.append(Finding(WARNING, "chain-slow", f"output moves at {res.output_speed:.3g} "
+                             f"{speed}, under the wanted {load.speed:g} {speed}", label, SOURCE,
                              key="load"))
     for st in res.stages:
         if st.margin is not None and st.margin < 1.0:
@@ -224,6 +269,7 @@ def _chain(result, v, where, label) -> DrivetrainResult | None:
                                  key="stages"))
     numbers = {
         "total_ratio": res.total_ratio, "efficiency": res.efficiency, "moves": res.moves,
+        "linear": linear, "units": {"torque": unit, "speed": speed},
         "motor_speed": res.motor_speed, "motor_torque": res.motor_torque,
         "output_speed": res.output_speed, "output_torque": res.output_torque,
         "move_limit": res.move_limit, "move_limit_at_speed": res.move_limit_at_speed,
@@ -236,8 +282,10 @@ def _chain(result, v, where, label) -> DrivetrainResult | None:
                     "margin_at_stall": s.margin_stall} for s in res.stages],
     }
     found.append(Finding(INFO, "chain-summary", f"ratio {res.total_ratio:.4g}, efficiency "
-                         f"{res.efficiency:.3f}; output {res.output_torque:.3g} N·m at "
-                         f"{res.output_speed:.4g} rpm; reflected inertia "
+                         f"{res.efficiency:.3f}; output {res.output_torque:.3g} {unit} at "
+                         f"{res.output_speed:.4g} {speed}; "
+                         + ("the load holds with the motor off (self-locking); "
+                            if math.isinf(res.hold_limit) else "") + "reflected inertia "
                          f"{res.reflected_inertia:.3g} kg·m²"
                          + (f"; weakest stage {res.weakest} (margin at stall "
                             f"{res.weakest_margin:.2f})" if res.weakest else ""),
