@@ -206,3 +206,24 @@ def test_a_torque_load_after_a_screw_is_refused(tmp_path):
     res = check([str(p)])
     (err,) = [f for f in res.findings if f.severity == "error"]
     assert "key 'load.torque': after a screw or drum the load is a force (N)" in err.message
+
+
+def test_belt_stage_margin_from_a_stated_tension_per_width(tmp_path):
+    p = tmp_path / "b.yaml"
+    p.write_text("""
+parts:
+  m_pulley: {kind: timing_pulley, profile: curv2, teeth: 20, belt_width: 6}
+  d_pulley: {kind: timing_pulley, profile: curv2, teeth: 40, belt_width: 6}
+drives:
+  belt: {pulleys: [m_pulley, d_pulley], center_distance: 60}
+drivetrains:
+  belted:
+    motor: {stall_torque: 0.5, no_load_speed: 300}
+    stages: [{drive: belt, allowable_tension: 10}]
+    load: {torque: 0.5}
+""")
+    res = check([str(p)])
+    (s,) = res.drivetrains[0].numbers["stages"]
+    # computed: r = 40 · 2 mm / (2π); allowable output torque = 10 N/mm · 6 mm · r
+    r = 40 * 2 / (2 * 3.141592653589793)
+    assert s["margin"] == pytest.approx(10 * 6 * r / 1000 / s["torque_out"], rel=1e-12)

@@ -59,6 +59,9 @@ STAGE_KEYS = (
     Key("allowable", "float", None, lo=0, hi=1e6, lo_open=True, unit="N·m",
         doc="largest output torque of the stage, when not rated from parts"),
     Key("inertia", "float", 0.0, lo=0, hi=1e6, unit="kg·m²", doc="on the stage output shaft"),
+    Key("allowable_tension", "float", None, lo=0, hi=1e5, lo_open=True, unit="N/mm",
+        doc="belt drive: allowable effective tension per mm of belt width, from the belt "
+            "maker's data (no default: it varies with the belt's make and cords)"),
 )
 LOAD_KEYS = (
     Key("torque", "float", None, lo=0, hi=1e6, unit="N·m", doc="at the output shaft"),
@@ -168,8 +171,19 @@ def _stage(result, v, where: Where, key: str, shafts: dict):
             raise where.error(key, f"names no checked belt drive '{v['drive']}'")
         z1, z2 = d["solution"].teeth
         pulleys = d.get("pulleys") or ("", "")
+        allow = v["allowable"]
+        if allow is None and v["allowable_tension"] is not None:
+            # effective tension T_e = T_out / r_driven; allowable T_out = T_e,allow · b · r
+            if not pulleys[1] or pulleys[1] not in result.models:
+                raise where.error(key + ".allowable_tension", "needs a drive of pulley parts "
+                                  "(their belt width)")
+            from gen.geometry.pulley import lookup_profile
+
+            r = z2 * lookup_profile(d["solution"].profile).pitch / (2 * math.pi)
+            width = result.models[pulleys[1]].values["belt_width"]
+            allow = v["allowable_tension"] * width * r / 1000.0
         return Stage("belt", z2 / z1, v["efficiency"], name=v["drive"],
-                     allowable=v["allowable"], inertia_out=v["inertia"],
+                     allowable=allow, inertia_out=v["inertia"],
                      input_shaft=shafts.get(pulleys[0], pulleys[0]),
                      output_shaft=shafts.get(pulleys[1], pulleys[1]))
     if v["assembly"] is not None:
