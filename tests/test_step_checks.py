@@ -75,3 +75,16 @@ def test_every_placed_solid_is_its_own_product(block, tmp_path):
     assert "wrist_input_1" in products and "wrist_input_2" in products
     back = analyse_shape(read_step_shape(path))
     assert back.solids == 2 and back.volume == pytest.approx(2000.0, rel=1e-9)
+
+
+def test_bored_herringbone_has_no_c0_curve_or_surface():
+    # a full-circle bore used to be two 180° rational arcs with double interior knots: curves
+    # and swept faces only C0 in their parameter, flagged by a full shape analysis (issue 11)
+    from gen import api
+    from gen.build.export import make_solid
+    from gen.export.step import analyse_shape
+
+    g = api.make("herringbone_gear", "h", module=1.5, teeth=16, face_width=12, helix_angle=25,
+                 bore=5)
+    rep = analyse_shape(make_solid(g).wrapped)
+    assert rep.valid and rep.c0_surfaces == 0 and rep.c0_curves == 0

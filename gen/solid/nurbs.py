@@ -78,12 +78,17 @@ def _reversed(c):
 
 
 def _split_closed(c):
-    """A curve that closes on itself (full circle, closed spline) as two open halves."""
+    """A curve that closes on itself (full circle, closed spline) as open pieces; an arc of more
+    than 90° as pieces of at most 90°, each one rational quadratic span: a longer arc needs
+    double interior knots, which make its curve (and any face swept from it) only C0 in its
+    parameter, and a full shape analysis flags that."""
     if isinstance(c, Arc):
-        if abs(c.a1 - c.a0) < 2.0 * math.pi - 1e-12:
+        span = c.a1 - c.a0
+        n = max(1, int(math.ceil(abs(span) / (0.5 * math.pi) - 1e-9)))
+        if n == 1:
             return [c]
-        m = 0.5 * (c.a0 + c.a1)
-        return [Arc(c.center, c.radius, c.a0, m), Arc(c.center, c.radius, m, c.a1)]
+        cuts = c.a0 + span * np.arange(n + 1) / n
+        return [Arc(c.center, c.radius, float(a), float(b)) for a, b in zip(cuts[:-1], cuts[1:])]
     if isinstance(c, Spline) and np.hypot(*(c.start - c.end)) < JUNCTION_GAP:
         k = len(c.points) // 2
         return [Spline(c.points[: k + 1]), Spline(c.points[k:])]
