@@ -47,3 +47,26 @@ def test_pair_moved_out_reports_more_backlash(write_yaml, capsys):
     import math
     jn = mesh["backlash_normal"] - base["backlash_normal"]
     assert jn == pytest.approx(2 * 0.1 * math.sin(math.radians(23.693)), rel=0.02)
+
+
+def test_table_says_whether_the_tip_shortening_is_applied(tmp_path, capsys):
+    # ISO 21771: the shifted pair z 12/30, x +0.4/+0.2, m 2 has k = x1 + x2 − y = 0.05
+    # (computed: y = (43.100 − 42)/2 = 0.55); a * marks a k the gears do not apply
+    from gen.cli import main
+
+    text = """
+trains:
+  t:
+    module: 2
+    parts:
+      a: {kind: spur_gear, teeth: 12, profile_shift: 0.4, face_width: 8%s}
+      b: {kind: spur_gear, teeth: 30, profile_shift: 0.2, face_width: 8%s}
+meshes:
+  - parts: [a, b]
+"""
+    for extra, mark in (("", "0.050*"), (", tip_shortening: auto", "0.050 ")):
+        p = tmp_path / "k.yaml"
+        p.write_text(text % (extra, extra))
+        main(["check", str(p)])
+        row = next(line for line in capsys.readouterr().out.splitlines() if "a+b" in line)
+        assert mark in row + " ", row

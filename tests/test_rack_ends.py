@@ -84,3 +84,19 @@ def test_helical_rack_solid_ends_at_its_length(racks):
     bb = solid(racks["hx"].shape).BoundingBox()
     # the kernel's bounding box carries the edge tolerance (1e-7 mm) on each side
     assert bb.xmin == pytest.approx(0.0, abs=1e-6) and bb.xmax == pytest.approx(100.0, abs=1e-6)
+
+
+def test_racks_get_the_printability_checks_without_a_fit():
+    # default 0.4 mm nozzle, two lines per wall (common practice): m 0.2 teeth are
+    # π·0.2/2 = 0.314 mm thick on the pitch line, under one line (computed); at m 1 a height
+    # of 1.3 mm leaves 1.3 − 1.25 = 0.05 mm of back under the tooth spaces (ISO 53 dedendum
+    # 1.25 m, from memory), under one wall
+    from gen import api
+
+    thin = api.make("rack", "r", module=0.2, length=20, face_width=3, height=2)
+    assert [(f.code, f.key) for f in thin.errors] == [("below-min-feature", "module")]
+    low = api.make("rack", "r2", module=1, length=20, face_width=3, height=1.3)
+    assert ("below-min-wall", "height") in {(f.code, f.key) for f in low.findings
+                                            if f.severity == "warning"}
+    ok = api.make("rack", "r3", module=1, length=20, face_width=3, height=3)
+    assert not [f for f in ok.findings if f.code in ("below-min-wall", "below-min-feature")]

@@ -20,27 +20,44 @@ def register(sub):
     p.set_defaults(func=run)
 
 
-def mesh_table(pairs) -> list[str]:
-    """A short fixed-width table of the declared meshes (mm, degrees)."""
+def _k_text(p, models) -> str:
+    """The pair's tip shortening k (ISO 21771) and whether its gears apply it."""
+    k = (p.get("numbers") or {}).get("tip_shortening")
+    if k is None or models is None:
+        return "–"
+    if k <= 1e-9:
+        return "0"
+    have = [models[n].sizes.get("tip_shortening", 0.0) if n in models else 0.0
+            for n in p["parts"]]
+    applied = all(h is not None and h >= k - 1e-6 for h in have)
+    return f"{k:.3f}{'' if applied else '*'}"
+
+
+def mesh_table(pairs, models=None) -> list[str]:
+    """A short fixed-width table of the declared meshes (mm, degrees). The k column is the
+    pair's tip shortening (ISO 21771); a * marks a k the gears do not apply (set
+    ``tip_shortening: auto`` on them to apply it)."""
     if not pairs:
         return []
     w = max(12, max(len(p["name"]) for p in pairs))
     head = (f"  {'mesh':<{w}}  {'C mm':>8}  {'αw °':>6}  {'εα':>5}  {'jn mm':>6}  "
-            f"{'gap mm':>6}  status")
+            f"{'gap mm':>6}  {'k':>6}  status")
     lines = [head]
     for p in pairs:
         n = p.get("numbers") or {}
         status = "error" if any(f.severity == "error" for f in p["findings"]) else \
             ("warning" if any(f.severity == "warning" for f in p["findings"]) else "ok")
         if not n:
-            lines.append(f"  {p['name']:<{w}}  {'–':>8}  {'–':>6}  {'–':>5}  {'–':>6}  {'–':>6}  {status}")
+            lines.append(f"  {p['name']:<{w}}  {'–':>8}  {'–':>6}  {'–':>5}  {'–':>6}  {'–':>6}  "
+                         f"{'–':>6}  {status}")
             continue
         gap = n.get("min_clearance")
         extra = f"  rack back at {n['rack_mounting_height']:.3f} mm" if "rack_mounting_height" in n else ""
         lines.append(f"  {p['name']:<{w}}  {n['center_distance']:>8.3f}  "
                      f"{n['working_pressure_angle']:>6.2f}  {n['contact_ratio']:>5.2f}  "
                      f"{n['backlash_normal']:>6.3f}  "
-                     f"{('%.3f' % gap) if gap is not None else '–':>6}  {status}{extra}")
+                     f"{('%.3f' % gap) if gap is not None else '–':>6}  "
+                     f"{_k_text(p, models):>6}  {status}{extra}")
     return lines
 
 
@@ -136,7 +153,7 @@ def run(args) -> int:
     from gen.check.drives import drive_table
     from gen.check.rotors import rotor_lines
 
-    for line in mesh_table(result.pairs) + drive_table(result.drives) + \
+    for line in mesh_table(result.pairs, result.models) + drive_table(result.drives) + \
             assembly_lines(result.assemblies) + drivetrain_lines(result.drivetrains) + \
             rotor_lines(result.rotors):
         print(line)

@@ -69,6 +69,13 @@ def make_rack(name, values, where, *, kind, beta=0.0, hand=None, chevron=False):
         raise where.error(key, str(exc), values[key]) from None
     poly = loop.polygon(values["chord_tolerance"])
     findings = rack_compare(name, rack_measure(poly, sizes), sizes, tol=1e-6)
+    # printability (default nozzle without a fit): tooth thickness on the pitch line (normal),
+    # and the back under the tooth spaces as the rim
+    from gen.validate.printability import print_limits, printability_findings
+
+    findings += printability_findings(name, print_limits(K.fit_of(values)),
+                                      tooth=sizes.s * math.cos(beta),
+                                      rim=sizes.height - sizes.dedendum, rim_key="height")
     if values["face_width"] < 0.5 * m:
         findings.append(Finding(ERROR, "face-vs-module", f"face width {values['face_width']:g} mm "
                                 f"is under half the module", name, "common practice", key="face_width"))
