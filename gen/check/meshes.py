@@ -18,7 +18,7 @@ from gen.params.project import display_path
 from gen.params.schema import REQUIRED, Key, Where, check_mapping
 from gen.tolerances import LIMITS
 from gen.validate.pair_basic import basic_pair_findings
-from gen.validate.pair_checks import pair_findings
+from gen.validate.pair_checks import pair_findings, pair_numbers
 from gen.validate.strength import MATERIALS
 from gen.validate.sweep import sweep_pair, sweep_rack
 from gen.check.sector_pairs import check_sector_pair, is_sector
@@ -46,32 +46,6 @@ def mesh_values(entry) -> dict:
     """The entry's values checked against :data:`MESH_KEYS`; raises ParamError."""
     where = Where(entry.file, entry.label, entry.line, section="mesh")
     return check_mapping(entry.values, MESH_KEYS, where)
-
-
-def pair_numbers(pr, sw) -> dict:
-    """The per-pair numbers of ``check --json`` (mm and degrees)."""
-    out = {
-        "center_distance": pr.center_distance,
-        "reference_center_distance": pr.reference_center_distance,
-        "working_center_distance": pr.zero_backlash_center_distance,
-        "working_pressure_angle": pr.working_pressure_angle,
-        "center_distance_modification": pr.y,
-        "tip_shortening": pr.k,
-        "contact_ratio": pr.contact_ratio,
-        "overlap_ratio": pr.overlap_ratio,
-        "backlash_normal": pr.backlash_normal,
-        "backlash_circumferential": pr.backlash_circumferential,
-        "tip_clearance": pr.tip_clearance,
-    }
-    if pr.rack_back_distance is not None:
-        out["rack_mounting_height"] = pr.rack_back_distance
-    if sw is not None:
-        out.update(min_clearance=min(sw.min_clearance_drive, sw.min_clearance_coast),
-                   min_clearance_drive=sw.min_clearance_drive,
-                   min_clearance_coast=sw.min_clearance_coast,
-                   overlap_area=sw.overlap_area, swept_backlash=sw.swept_backlash,
-                   clear_center_distance=sw.clear_center_distance)
-    return out
 
 
 def check_cylindrical_pair(label, names, a, b, v):

@@ -212,20 +212,9 @@ def make(name, values, where):
         ang = twist * (z_anchor - band0)
         radial.append(RadialHole(anchor, z_anchor, ang, max(0.0, r_bore - 0.2),
                                  s.outer_diameter / 2.0 + 0.5))
-    if screw:
-        if not hub:
-            findings.append(Finding(ERROR, "set-screw-needs-hub", "set screws go through a hub: "
-                                    "add hub: {diameter, length}", name, "", key="set_screw"))
-        else:
-            d = SET_SCREW_DRILL[screw["size"]]
-            if d > 0.8 * hub["length"]:
-                findings.append(Finding(ERROR, "set-screw-too-big", f"{screw['size']} tap drill "
-                                        f"{d:g} mm does not fit a {hub['length']:g} mm hub", name,
-                                        "", key="set_screw"))
-            a0 = math.pi / 2 if (bore is not None and (bore.flat or bore.keyway)) else 0.0
-            radial += [RadialHole(d, hub["length"] / 2.0, a0 - i * math.pi / 2,
-                                  max(0.0, r_bore - 0.2), hub["diameter"] / 2.0 + 0.5)
-                       for i in range(screw["count"])]
+    radial += list(K.set_screw_holes(name, screw, hub, r_bore if bore is not None else None,
+                                     bore is not None and bool(bore.flat or bore.keyway),
+                                     findings))
     body = Body(tuple(solids), radial_holes=tuple(radial))
     poly = loop.polygon(chord)
     findings += drum_findings(name, measure_drum(poly, s), s, chord + TOL.size, "section")

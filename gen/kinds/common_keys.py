@@ -52,3 +52,35 @@ def fit_of(values) -> dict:
     """The resolved fit profile of a part (no allowances when none is named)."""
     f = values.get("fit")
     return f if isinstance(f, dict) else NO_FIT
+
+
+def set_screw_holes(name: str, screw, hub, bore_radius: float | None, flat_or_key: bool,
+                    findings: list) -> tuple:
+    """Radial tap-drill holes for the set screws through a hub (``RadialHole``s), or errors in
+    ``findings`` when there is no hub or the drill does not fit it. Holes sit at mid-hub, the
+    first at 90° to a D-flat or keyway, the second a quarter turn on (common practice)."""
+    import math
+
+    from gen.findings import ERROR, Finding
+    from gen.geometry.body import RadialHole
+
+    if not screw:
+        return ()
+    if not hub:
+        findings.append(Finding(ERROR, "set-screw-needs-hub", "set screws go through a hub: "
+                                "add hub: {diameter, length}", name, "", key="set_screw"))
+        return ()
+    d = SET_SCREW_DRILL[screw["size"]]
+    if d > 0.8 * hub["length"]:
+        findings.append(Finding(ERROR, "set-screw-too-big", f"{screw['size']} tap drill "
+                                f"{d:g} mm does not fit a {hub['length']:g} mm hub", name,
+                                "", key="set_screw"))
+        return ()
+    r0 = 0.0 if bore_radius is None else max(0.0, bore_radius - 0.2)
+    a0 = math.pi / 2 if flat_or_key else 0.0
+    return tuple(RadialHole(d, hub["length"] / 2.0, a0 - i * math.pi / 2, r0,
+                            hub["diameter"] / 2.0 + 0.5) for i in range(screw["count"]))
+
+
+#: tap-drill diameters for ISO metric coarse set screws (from memory; common practice)
+SET_SCREW_DRILL = {"M2": 1.6, "M2.5": 2.05, "M3": 2.5, "M4": 3.3, "M5": 4.2, "M6": 5.0}

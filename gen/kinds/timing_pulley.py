@@ -7,10 +7,9 @@ ISO 5288 sizes (dp = z·p/π, do = dp − 2a) come from :mod:`gen.geometry.pulle
 
 from __future__ import annotations
 
-import math
 
 from gen.errors import GeometryError
-from gen.geometry.body import Body, Prism, RadialHole
+from gen.geometry.body import Body, Prism
 from gen.geometry.pulley import PROFILES, lookup_profile, pulley_loop, pulley_sizes
 from gen.geometry.section import Section, circle
 from gen.params.schema import REQUIRED, Key
@@ -27,8 +26,7 @@ FORMULAS = (
     Formula("pitch_diameter", "d_p = z·p/π", "ISO 5288"),
     Formula("outside_diameter", "d_o = d_p − 2a (a: pitch-line differential)", "ISO 5288"),
 )
-#: tap-drill diameters for ISO metric coarse set screws (from memory; common practice)
-SET_SCREW_DRILL = {"M2": 1.6, "M2.5": 2.05, "M3": 2.5, "M4": 3.3, "M5": 4.2, "M6": 5.0}
+SET_SCREW_DRILL = K.SET_SCREW_DRILL
 #: toothed band longer than the belt so it runs clear of the flanges (common practice)
 BAND_MARGIN = 1.0
 
@@ -101,22 +99,8 @@ def make(name, values, where):
     if values["flanges"] == "both":
         solids.append(Prism(Section(circle(flange_r), holes), z, z + t))
         z += t
-    radial = ()
-    if screw:
-        if not hub:
-            findings.append(Finding(ERROR, "set-screw-needs-hub", "set screws go through a hub: "
-                                    "add hub: {diameter, length}", name, "", key="set_screw"))
-        else:
-            d = SET_SCREW_DRILL[screw["size"]]
-            if d > 0.8 * hub["length"]:
-                findings.append(Finding(ERROR, "set-screw-too-big", f"{screw['size']} tap drill "
-                                        f"{d:g} mm does not fit a {hub['length']:g} mm hub", name,
-                                        "", key="set_screw"))
-            r0 = 0.0 if bore is None else bore.d / 2.0 - 0.2
-            angle0 = math.pi / 2 if (bore is not None and (bore.flat or bore.keyway)) else 0.0
-            radial = tuple(RadialHole(d, hub["length"] / 2.0, angle0 - i * math.pi / 2,
-                                      max(0.0, r0), hub["diameter"] / 2.0 + 0.5)
-                           for i in range(screw["count"]))
+    radial = K.set_screw_holes(name, screw, hub, None if bore is None else bore.d / 2.0,
+                               bore is not None and bool(bore.flat or bore.keyway), findings)
     body = Body(tuple(solids), radial_holes=radial)
     manifest = {"profile": prof.name, "teeth": sizes.teeth, "pitch": sizes.pitch,
                 "pitch_diameter": sizes.pitch_diameter, "outside_diameter": sizes.outside_diameter,

@@ -114,31 +114,17 @@ def internal_pair_findings(pr, sw=None, *, subject: str = "", print_clearance=No
 
 
 def internal_numbers(pr, sw) -> dict:
-    """The per-pair numbers of ``check --json`` for an internal mesh (mm, degrees)."""
-    out = {
-        "internal": True,
-        "center_distance": pr.center_distance,
-        "reference_center_distance": pr.reference_center_distance,
-        "working_center_distance": pr.zero_backlash_center_distance,
-        "working_pressure_angle": pr.working_pressure_angle,
-        "center_distance_modification": pr.y,
-        "tip_shortening": pr.k,
-        "contact_ratio": pr.contact_ratio,
-        "overlap_ratio": pr.overlap_ratio,
-        "backlash_normal": pr.backlash_normal,
-        "backlash_circumferential": pr.backlash_circumferential,
-        "tip_clearance": pr.tip_clearance,
-        "tooth_difference": pr.tooth_difference,
-        "involute_margin": pr.involute_margin,
-        "trochoid_margin": pr.trochoid_margin,
-        "min_tooth_difference": pr.min_tooth_difference,
-        "radial_assembly": pr.radial_assembly,
-    }
-    if sw is not None:
-        out.update(min_clearance=min(sw.min_clearance_drive, sw.min_clearance_coast),
-                   min_clearance_drive=sw.min_clearance_drive,
-                   min_clearance_coast=sw.min_clearance_coast,
-                   overlap_area=sw.overlap_area, swept_backlash=sw.swept_backlash)
+    """The per-pair numbers of ``check --json`` for an internal mesh (mm, degrees): those of
+    an external pair (:func:`gen.validate.pair_checks.pair_numbers`) and the internal ones."""
+    from gen.validate.pair_checks import pair_numbers
+
+    out = {"internal": True, **pair_numbers(pr, sw)}
+    out.pop("clear_center_distance", None)   # the internal sweep does not search for it
+    out.pop("rack_mounting_height", None)
+    out.update(tooth_difference=pr.tooth_difference, involute_margin=pr.involute_margin,
+               trochoid_margin=pr.trochoid_margin,
+               min_tooth_difference=pr.min_tooth_difference,
+               radial_assembly=pr.radial_assembly)
     return out
 
 

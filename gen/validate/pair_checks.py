@@ -218,3 +218,30 @@ def _info(pair: PairResult, sweep: SweepResult | None, subject: str, dist_name: 
                         f"{sweep.swept_backlash:.4f} mm vs formula {sweep.formula_backlash:.4f} mm",
                         subject, SOURCE_SWEEP))
     return lines
+
+
+def pair_numbers(pr, sw) -> dict:
+    """The per-pair numbers of ``check --json`` (mm and degrees)."""
+    out = {
+        "center_distance": pr.center_distance,
+        "reference_center_distance": pr.reference_center_distance,
+        "working_center_distance": pr.zero_backlash_center_distance,
+        "working_pressure_angle": pr.working_pressure_angle,
+        "center_distance_modification": pr.y,
+        "tip_shortening": pr.k,
+        "contact_ratio": pr.contact_ratio,
+        "overlap_ratio": pr.overlap_ratio,
+        "backlash_normal": pr.backlash_normal,
+        "backlash_circumferential": pr.backlash_circumferential,
+        "tip_clearance": pr.tip_clearance,
+    }
+    if getattr(pr, "rack_back_distance", None) is not None:
+        out["rack_mounting_height"] = pr.rack_back_distance
+    if sw is not None:
+        out.update(min_clearance=min(sw.min_clearance_drive, sw.min_clearance_coast),
+                   min_clearance_drive=sw.min_clearance_drive,
+                   min_clearance_coast=sw.min_clearance_coast,
+                   overlap_area=sw.overlap_area, swept_backlash=sw.swept_backlash)
+        if hasattr(sw, "clear_center_distance"):
+            out["clear_center_distance"] = sw.clear_center_distance
+    return out
