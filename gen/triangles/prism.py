@@ -122,7 +122,11 @@ def loop_polygon(loop: Loop, tol: float, ccw: bool = True) -> np.ndarray:
         else:
             raise GeometryError(f"unknown section curve {type(c).__name__}")
     poly = np.concatenate(parts, axis=0)
-    keep = np.hypot(*(poly - np.roll(poly, 1, axis=0)).T) > 1e-12
+    # vertices closer than this are one: curve junctions fitted apart by round-off would
+    # otherwise give sliver facets that a re-read of the written STL counts as degenerate
+    # (1/100 of the chord tolerance, at most 0.1 µm: no measurable change of the outline)
+    merge = min(1e-4, 0.01 * tol)
+    keep = np.hypot(*(poly - np.roll(poly, 1, axis=0)).T) > merge
     poly = poly[keep]
     if (signed_area(poly) > 0) != ccw:
         poly = poly[::-1]
@@ -253,6 +257,10 @@ def body_triangles(body: Body, tol: float = 0.01):
         m = m - radial_hole_manifold(h, tol)
     if m.status() != manifold3d.Error.NoError or m.is_empty():
         raise GeometryError(f"mesh boolean of the body failed ({m.status()})")
+    # booleans can leave slivers (a cut through a helical groove): collapse edges shorter than
+    # 1/100 of the chord tolerance, far under what any measurement sees, so that the file as
+    # written (float32) holds no degenerate facet
+    m = m.simplify(0.01 * tol)
     return _to_trimesh(*_from_manifold(m))
 
 
@@ -263,6 +271,9 @@ def radial_hole_manifold(hole, tol: float = 0.01):
     r = hole.diameter / 2.0
     n = max(12, int(math.ceil(math.pi / math.acos(max(-1.0, 1.0 - tol / r)))))
     cyl = m3d.Manifold.cylinder(hole.r1 - hole.r0, r, r, n)   # along +Z from 0
+    # turned half a facet about its axis: no vertex of the polygon sits on the hole's top or
+    # bottom line, where it would meet section vertices of the body and leave needle facets
+    cyl = cyl.rotate((0.0, 0.0, 180.0 / n))
     cyl = cyl.rotate((0.0, 90.0, 0.0)).translate((hole.r0, 0.0, 0.0))
     return cyl.rotate((0.0, 0.0, math.degrees(hole.angle))).translate((0.0, 0.0, hole.z))
 
