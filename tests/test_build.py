@@ -55,12 +55,21 @@ def _demo_parts():
             for name, values in train["parts"].items():
                 parts[name] = (values["kind"], {**shared, **values})
         for name, asm in (doc.get("assemblies") or {}).items():
-            assert asm["kind"] == "bevel_differential"
             parts[f"assembly:{name}"] = (asm["kind"], asm)
-            for i in (1, 2):
-                parts[f"{name}_input_{i}"] = ("bevel_gear", asm)
-            for i in range(1, asm.get("outputs", 1) + 1):
-                parts[f"{name}_output_{i}"] = ("bevel_gear", asm)
+            if asm["kind"] == "bevel_differential":
+                for i in (1, 2):
+                    parts[f"{name}_input_{i}"] = ("bevel_gear", None)
+                for i in range(1, asm.get("outputs", 1) + 1):
+                    parts[f"{name}_output_{i}"] = ("bevel_gear", None)
+                continue
+            assert asm["kind"] == "planetary"
+            gear = ("herringbone_gear" if asm.get("herringbone") else
+                    "helical_gear" if asm.get("helix_angle") else "spur_gear")
+            parts[f"{name}_sun"] = (gear, None)
+            for i in range(1, asm.get("planets", 3) + 1):
+                parts[f"{name}_planet_{i}"] = (gear, None)
+            parts[f"{name}_ring"] = ("ring_gear", None)
+            parts[f"{name}_carrier"] = ("planet_carrier", None)
     return parts
 
 
@@ -79,7 +88,7 @@ def test_manifest_lists_every_part(demo):
             path = demo / info["path"]
             assert path.exists() and os.path.getsize(path) == info["bytes"]
             assert _sha(path) == info["sha256"]
-        if kind in ("spur_gear", "helical_gear", "herringbone_gear"):
+        if values is not None and kind in ("spur_gear", "helical_gear", "herringbone_gear"):
             # ISO 21771 (from memory), ISO 53 A (h_aP 1.0 m, h_fP 1.25 m; from memory), from the
             # YAML values: d = z mn / cos β, da = d + 2 mn (1 + x), df = d − 2 mn (1.25 − x),
             # db = d cos αt with tan αt = tan αn / cos β (computed)

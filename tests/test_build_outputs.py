@@ -37,7 +37,7 @@ def _manifest(out):
 
 
 def _listed(doc):
-    names = {"manifest.json"}
+    names = {"manifest.json", "report.html"}   # the whole-build page is written every build
     for entry in doc["parts"].values():
         names |= {f["path"] for f in entry["files"].values()}
     names |= {p["path"] for p in doc["plates"]}

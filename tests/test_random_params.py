@@ -62,6 +62,11 @@ def expected_refusals(values, beta_deg=0.0):
     if s_a <= 0:
         codes.add("pointed-tip")
         return codes, margin       # a pointed tooth has no outline: nothing else is measured
+    # a tooth under one printed line of the default 0.4 mm nozzle cannot be printed (common
+    # practice: a line is about the nozzle wide)
+    margin = min(margin, abs(s - 0.4) / mn)
+    if s < 0.4:
+        codes.add("below-min-feature")
     if "bore" in values:
         gap = df / 2 - values["bore"] / 2
         margin = min(margin, abs(gap) / mn)

@@ -35,6 +35,13 @@ def assembly_items(asm, models, out: str | None = None):
     return items
 
 
+def assembly_step(asm, models, path: str, out: str | None = None) -> int:
+    """Write one assembly's STEP (named, placed solids); returns the bytes written."""
+    from gen.export.step import write_step_assembly
+
+    return write_step_assembly(assembly_items(asm, models, out), path, asm.name)
+
+
 def export_assemblies(result, out, formats, report, prev) -> None:
     if "step" not in formats:
         return

@@ -78,6 +78,10 @@ def outline_svg(part, uid: str) -> str:
 
         s = part.mate.sizes
         polys = [virtual_outline(part.mate.flank, s.zv, 0.02)]
+    elif getattr(part.shape, "builder", "") == "revolved":
+        # a solid of revolution: its half-section (r, z) mirrored about the axis
+        prof = np.asarray(part.shape.profile, float)
+        polys = [prof, prof * np.array([-1.0, 1.0])]
     if not polys:
         return '<p class="muted">no outline to draw</p>'
     if part.role.value == "internal_gear":   # the toothed hole inside the rim
@@ -131,6 +135,8 @@ def part_card(part, outcome=None, out_dir=None) -> str:
         pic = outline_svg(part, aid + "-outline")
         caption = ("Tredgold virtual outline on the back cone, large end (no file written)"
                    if part.outline is None and role == "bevel_gear" else
+                   "section through the axis (no file written)"
+                   if getattr(part.shape, "builder", "") == "revolved" else
                    "measured outline (no file written)")
     sizes = {k: v for k, v in part.sizes.items() if not isinstance(v, (list, tuple, dict))
              and v is not None}

@@ -54,7 +54,9 @@ def measure_thread(poly: np.ndarray, s) -> dict:
     count and angular widths on the pitch circle (each 2φ = π P / L for the ISO thickness
     P/2 on d2), and the centre angle of each lobe there."""
     r = measure.radii(poly)
-    arcs = measure.material_arcs(poly, s.d2 / 2.0)
+    # measured a hair outside d2: the section's flank samples include points exactly on the
+    # pitch circle, which a crossing test with strict sides would skip (one start: no lobe)
+    arcs = measure.material_arcs(poly, s.d2 / 2.0 * (1.0 + 1e-9))
     return {"major": 2.0 * float(r.max()), "minor": 2.0 * float(r.min()),
             "lobes": len(arcs), "widths": arcs[:, 1] if len(arcs) else np.zeros(0),
             "centres": (arcs[:, 0] + arcs[:, 1] / 2.0) if len(arcs) else np.zeros(0)}

@@ -24,9 +24,7 @@ def circle_crossings(poly: np.ndarray, R: float):
     a = poly
     b = np.roll(poly, -1, axis=0)
     ra, rb = radii(a), radii(b)
-    # half-open: an edge crosses when one end is inside (< R) and the other on or outside, so
-    # a vertex lying exactly on the circle is counted once, not dropped
-    sel = (ra < R) != (rb < R)
+    sel = (ra - R) * (rb - R) < 0
     a, b = a[sel], b[sel]
     d = b - a
     # |a + t d|² = R²
@@ -37,8 +35,6 @@ def circle_crossings(poly: np.ndarray, R: float):
     t1 = (-B + disc) / (2 * A)
     t2 = (-B - disc) / (2 * A)
     t = np.where((t1 >= 0) & (t1 <= 1), t1, t2)
-    ra_s, rb_s = ra[sel], rb[sel]
-    t = np.where(ra_s == R, 0.0, np.where(rb_s == R, 1.0, t))   # an end on the circle
     p = a + t[:, None] * d
     ang = np.arctan2(p[:, 1], p[:, 0])
     outward = ra[sel] < R
