@@ -29,7 +29,8 @@ RACK = """parts:
 @pytest.fixture(scope="module")
 def demo(tmp_path_factory):
     out = tmp_path_factory.mktemp("demo")
-    assert main(["build", PARAMS, "--out", str(out)]) == 0
+    # two worker processes (the machine's two cores): the demo is the suite's largest build
+    assert main(["build", PARAMS, "--out", str(out), "--jobs", "2"]) == 0
     return out
 
 

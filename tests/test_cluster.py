@@ -20,10 +20,10 @@ from gen.cli import main  # noqa: E402
 CATALOGUE = """
 series:
   catalogue:
-    kind: timing_pulley
-    name: "cat_{belt_width}_{teeth}t"
-    vary: {belt_width: [6, 9], teeth: "12..111"}
-    values: {profile: curv2, flanges: none, chord_tolerance: 0.05}
+    kind: rack
+    name: "cat_{face_width}_{length}"
+    vary: {face_width: [4, 6], length: "10..109"}
+    values: {module: 1, height: 5, chord_tolerance: 0.05}
 """
 
 
@@ -96,7 +96,7 @@ def test_a_worker_killed_mid_build_is_survived(catalogue, cluster, tmp_path):
     address, workers = cluster
     # a part of the same catalogue (same names and values, so the same bytes)
     path = tmp_path / "part.yaml"
-    path.write_text(CATALOGUE.replace('"12..111"', '"12..51"').replace("[6, 9]", "[6]"))
+    path.write_text(CATALOGUE.replace('"10..109"', '"10..49"').replace("[4, 6]", "[4]"))
     out = tmp_path / "killed"
     killed = []
 
