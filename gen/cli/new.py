@@ -197,9 +197,9 @@ def drivetrain_text(name: str) -> str:
              "# file declares (meshes, drives, planetary assemblies) or a free ratio, a load.",
              "# Torques N·m, speeds rpm."] + HEAD + [
         "parts:",
-        f"  {a}: {{kind: spur_gear, module: 1.5, teeth: 15, profile_shift: 0.3, face_width: 8, "
+        f"  {a}: {{kind: spur_gear, module: 1.5, teeth: 15, profile_shift: 0.3, face_width: 10, "
         "backlash_allowance: 0.15, bore: 5}",
-        f"  {b}: {{kind: spur_gear, module: 1.5, teeth: 45, face_width: 8, "
+        f"  {b}: {{kind: spur_gear, module: 1.5, teeth: 45, face_width: 10, "
         "backlash_allowance: 0.15, bore: 8}",
         "meshes:", f"  - parts: [{a}, {b}]",
         "drivetrains:", f"  {name}:",
