@@ -33,6 +33,7 @@ import shapely
 from gen.errors import GeometryError
 from gen.geometry.internal_pair import InternalPairResult
 from gen.validate.sweep import (CLEAR, INTERFERING, SWEEP_TOL, TOUCHING, SweepTolerances,
+                                sweep_status,
                                 _posed, _sector, _split, _wrap)
 
 __all__ = ["CLEAR", "TOUCHING", "INTERFERING", "InternalSweepResult", "sweep_internal",
@@ -132,15 +133,8 @@ def sweep_internal(pinion_poly: np.ndarray, hole_poly: np.ndarray, pair: Interna
     dc = shapely.distance(_posed(m1.coast, r1, s1), _posed(m2.coast, r2, s2))
     both = np.minimum(dd, dc)
     i_min = int(np.argmin(both))
-    overlap = float(area.max())
-    interfering = overlap > tol.overlap_area
-    if interfering:
-        status = INTERFERING
-    elif float(both.min()) < tol.contact:
-        status = TOUCHING
-    else:
-        status = CLEAR
-    swept = 0.0 if interfering else float(np.min(dd + dc)) / math.cos(pair.alpha_w)
+    status, overlap, swept = sweep_status(area, dd, dc, tol, pair.alpha_w)
+    interfering = status == INTERFERING
     return InternalSweepResult(
         status=status, min_clearance=float(both.min()), min_clearance_drive=float(dd.min()),
         min_clearance_coast=float(dc.min()), overlap_area=overlap,

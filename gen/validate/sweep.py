@@ -323,6 +323,18 @@ def _overlap(m1, m2, pose, theta, d_center=0.0):
     return shapely.area(shapely.intersection(_posed(m1.region, a1, t1), _posed(m2.region, a2, t2)))
 
 
+def sweep_status(area, dd, dc, tol, alpha_w: float):
+    """(status, largest overlap mm², swept backlash mm) of a sweep from its overlap areas and
+    drive/coast distances per step: interfering past the overlap tolerance, touching under the
+    contact distance, else clear; the swept circumferential backlash is the least drive +
+    coast gap over cos α_w (zero when interfering)."""
+    overlap = float(np.max(area))
+    if overlap > tol.overlap_area:
+        return INTERFERING, overlap, 0.0
+    status = TOUCHING if float(np.min(np.minimum(dd, dc))) < tol.contact else CLEAR
+    return status, overlap, float(np.min(dd + dc)) / math.cos(alpha_w)
+
+
 def _run(m1: _Member, m2: _Member, pose: Pose, pr: PairResult, steps: int, margin: float,
          tol: SweepTolerances, find_clearing: bool) -> SweepResult:
     pitch1 = 2.0 * math.pi / pose.z1
@@ -338,15 +350,8 @@ def _run(m1: _Member, m2: _Member, pose: Pose, pr: PairResult, steps: int, margi
     tight = shapely.shortest_line(d1[i_min], d2[i_min]) if dd[i_min] <= dc[i_min] else \
         shapely.shortest_line(c1[i_min], c2[i_min])
     seg = tuple(tuple(map(float, q)) for q in shapely.get_coordinates(tight))
-    overlap = float(area.max())
-    interfering = overlap > tol.overlap_area
-    if interfering:
-        status = INTERFERING
-    elif float(both.min()) < tol.contact:
-        status = TOUCHING
-    else:
-        status = CLEAR
-    swept = 0.0 if interfering else float(np.min(dd + dc)) / math.cos(pr.alpha_w)
+    status, overlap, swept = sweep_status(area, dd, dc, tol, pr.alpha_w)
+    interfering = status == INTERFERING
     clear_c = None
     if interfering and find_clearing:
         clear_c = _clearing(m1, m2, pose, theta, pr, tol)
