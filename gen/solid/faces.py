@@ -145,45 +145,70 @@ class Track:
         return math.cos(float(th)), math.sin(float(th)), float(s)
 
 
+def level_rows(bld: Builder, tr: Track, levels) -> dict:
+    """Edges of ``tr``'s curves at each level: {level index: [(edge, pole x, pole y, start
+    vertex), ...]}; consecutive curves share their vertices."""
+    per = {}
+    for k, z in enumerate(levels):
+        c, s, t = tr.at(z)
+        verts = []
+        for nb in tr.curves:
+            x, y = place(nb.poles[:1], c, s, t)
+            verts.append(bld.vertex(x[0, 0], y[0, 0], z))
+        row = []
+        for i, nb in enumerate(tr.curves):
+            x, y = place(nb.poles, c, s, t)
+            x, y = x[:, 0], y[:, 0]
+            curve = bld.curve3d(nb, x, y, z)
+            e = bld.edge(curve, verts[i], verts[(i + 1) % len(verts)], nb.knots[0], nb.knots[-1])
+            row.append((e, x, y, verts[i], curve))
+        per[k] = row
+    return per
+
+
+def track_faces(bld: Builder, tr: Track, levels, per: dict) -> list:
+    """Lateral faces of ``tr`` between consecutive levels, bounded by the rows' edges."""
+    faces = []
+    for k in range(len(levels) - 1):
+        faces.extend(_stage_faces(bld, tr, levels[k], levels[k + 1], per[k], per[k + 1]))
+    return faces
+
+
+def planar_face(bld: Builder, z: float, loops, up: bool):
+    """Planar face at height z bounded by ``loops`` = [(track, row, forward)], the first the
+    outer boundary; ``forward`` False runs a loop backwards (a ccw outer loop used as a hole);
+    ``up``: the material lies below (the face's normal is +Z)."""
+    pl = bld.plane(z)
+    wires = []
+    for tr, row, forward in loops:
+        for (e, x, y, *_), nb in zip(row, tr.curves):
+            bld.pcurve(e, bld.curve2d(nb, x, y), pl)
+        edges = [(e, True) for e, *_ in row]
+        wires.append(bld.wire(edges if forward else [(e, False) for e, _ in edges[::-1]]))
+    f = bld.face(pl, wires)
+    return f if up else f.Reversed()
+
+
 def lateral_shell(tracks: list, z0: float, z1: float):
     """Closed solid from moving loops: lateral B-spline faces + two planar caps."""
     bld = Builder()
     faces = []
-    horiz = []  # per track: {level index: [(edge, pole x, pole y, start vertex), ...]}
+    horiz = []
     for tr in tracks:
         levels = tr.levels(z0, z1)
-        per = {}
-        for k, z in enumerate(levels):
-            c, s, t = tr.at(z)
-            verts = []
-            for nb in tr.curves:
-                x, y = place(nb.poles[:1], c, s, t)
-                verts.append(bld.vertex(x[0, 0], y[0, 0], z))
-            row = []
-            for i, nb in enumerate(tr.curves):
-                x, y = place(nb.poles, c, s, t)
-                x, y = x[:, 0], y[:, 0]
-                e = bld.edge(bld.curve3d(nb, x, y, z), verts[i], verts[(i + 1) % len(verts)],
-                             nb.knots[0], nb.knots[-1])
-                row.append((e, x, y, verts[i]))
-            per[k] = row
+        per = level_rows(bld, tr, levels)
         horiz.append(per)
-        for k in range(len(levels) - 1):
-            faces.extend(_stage_faces(bld, tr, levels[k], levels[k + 1], per[k], per[k + 1]))
+        faces.extend(track_faces(bld, tr, levels, per))
     for k_end, z, top in ((0, z0, False), (-1, z1, True)):
-        pl = bld.plane(z)
-        wires = []
-        for tr, per in zip(tracks, horiz):
-            row = per[len(per) - 1 if k_end == -1 else 0]
-            for (e, x, y, _), nb in zip(row, tr.curves):
-                bld.pcurve(e, bld.curve2d(nb, x, y), pl)
-            wires.append(bld.wire([(e, True) for e, *_ in row]))
-        f = bld.face(pl, wires)
-        faces.append(f if top else f.Reversed())
+        loops = [(tr, per[len(per) - 1 if k_end == -1 else 0], True)
+                 for tr, per in zip(tracks, horiz)]
+        faces.append(planar_face(bld, z, loops, top))
     return bld.solid(faces)
 
 
 def _stage_faces(bld: Builder, tr: Track, za: float, zb: float, low, high):
+    if tr.prism is None:
+        return _extruded_faces(bld, tr, za, zb, low, high)
     o = bld.o
     ca, sa, ta = tr.at(za)
     cb, sb, tb = tr.at(zb)
@@ -237,3 +262,30 @@ def _stage_faces(bld: Builder, tr: Track, za: float, zb: float, low, high):
         faces.append(bld.face(S, [bld.wire([(eb, True), (er, True), (et, False), (el, False)])]))
     return faces
 
+
+
+def _extruded_faces(bld: Builder, tr: Track, za: float, zb: float, low, high) -> list:
+    """Lateral faces of a loop that does not move: surfaces of linear extrusion along +Z of the
+    bottom edges' own curves (the STEP file then holds each curve once, not as a second row
+    of B-spline poles)."""
+    o = bld.o
+    up = o.gp_Dir(0.0, 0.0, 1.0)
+    h = zb - za
+    n = len(tr.curves)
+    vert = []  # vertical lines at the start of each curve, parameter = height above za
+    for i, nb in enumerate(tr.curves):
+        x, y = float(low[i][1][0]), float(low[i][2][0])
+        line = o.Geom_Line(o.gp_Pnt(x, y, za), up)
+        vert.append(bld.edge(line, low[i][3], high[i][3], 0.0, h))
+    faces = []
+    for i, nb in enumerate(tr.curves):
+        S = o.Geom_SurfaceOfLinearExtrusion(low[i][4], up)
+        u0, u1 = nb.knots[0], nb.knots[-1]
+        eb, et = low[i][0], high[i][0]
+        el, er = vert[i], vert[(i + 1) % n]
+        bld.pcurve(eb, bld.iso_line(v=0.0), S)
+        bld.pcurve(et, bld.iso_line(v=h), S)
+        bld.pcurve(el, bld.iso_line(u=u0), S)
+        bld.pcurve(er, bld.iso_line(u=u1), S)
+        faces.append(bld.face(S, [bld.wire([(eb, True), (er, True), (et, False), (el, False)])]))
+    return faces

@@ -28,7 +28,7 @@ _OCC_NAMES = {
     "OCP.BRepCheck": ("BRepCheck_Analyzer",),
     "OCP.BRepPrimAPI": ("BRepPrimAPI_MakePrism",),
     "OCP.Geom": ("Geom_BSplineCurve", "Geom_BSplineSurface", "Geom_Circle", "Geom_ConicalSurface",
-                 "Geom_CylindricalSurface", "Geom_Line", "Geom_Plane"),
+                 "Geom_CylindricalSurface", "Geom_Line", "Geom_Plane", "Geom_SurfaceOfLinearExtrusion"),
     "OCP.Geom2d": ("Geom2d_BSplineCurve", "Geom2d_Circle", "Geom2d_Line"),
     "OCP.Geom2dAPI": ("Geom2dAPI_PointsToBSpline",),
     "OCP.GeomAbs": ("GeomAbs_C2",),

@@ -24,7 +24,9 @@ from gen.errors import GeometryError
 from gen.geometry.body import Body, Prism, plan_cuts
 from gen.geometry.section import Arc, Line, Loop
 
+from gen.geometry.stack import stack_layout
 from gen.solid.faces import Builder, Track, lateral_shell
+from gen.solid.stack import stack_shell
 from gen.solid.kernel import HELIX_FIT, KERNEL_TOL  # noqa: F401  (HELIX_FIT re-exported)
 from gen.solid.kernel import as_solid, check_solid, occ
 from gen.solid.nurbs import loop_nurbs, oriented_curves, rotation_invariant, spline_nurbs
@@ -141,6 +143,7 @@ def radial_hole_solid(hole):
 def body_solid(body: Body, check: bool = True):
     """cadquery.Solid of ``body``: union of its prisms minus its cuts.
 
+    A stack of prisms (:mod:`gen.geometry.stack`) is one shell built face by face.
     Straight through-cuts that :func:`plan_cuts` can place become plain holes of the faces;
     the rest, and unions of several prisms, use OCC booleans (their cost is in the bench).
     """
@@ -148,7 +151,11 @@ def body_solid(body: Body, check: bool = True):
 
     o = occ()
     plan = plan_cuts(body)
-    shapes = [_raw_prism(p, holes) for p, holes in zip(body.solids, plan.holes)]
+    layout = stack_layout(body, plan)
+    if layout is not None:   # one shell, no union (gen.geometry.stack)
+        shapes = [stack_shell(body.solids, layout)]
+    else:
+        shapes = [_raw_prism(p, holes) for p, holes in zip(body.solids, plan.holes)]
     shape = shapes[0]
     for other in shapes[1:]:
         op = o.BRepAlgoAPI_Fuse(shape, other)  # no SimplifyResult: it broke validity here
