@@ -8,8 +8,10 @@ Shape analysis (:func:`analyse_shape`), with the CAD kernel's own tools:
   (``NbNoPCurve``), B-spline surfaces and curves of C0 continuity; free edges (bounding one
   face only: an open shell) from the edge → face map;
 * curve on surface: for every edge of every face, the 3-D curve against the face's curve on
-  surface (``BRepAdaptor_Curve(edge)`` vs ``BRepAdaptor_Curve(edge, face)``) at 23 equally
-  spaced parameters, the same sampling ``BRepCheck`` uses for SameParameter;
+  surface (``BRepLib_ValidateEdge`` of ``BRepAdaptor_Curve(edge)`` and the curve on surface
+  of ``BRepAdaptor_Curve(edge, face)``) at 23 equally spaced parameters, the same sampling
+  ``BRepCheck`` uses for SameParameter (the kernel's own loop: ~10× faster than sampling
+  from Python);
 * tolerances: the largest edge and vertex tolerance (``BRep_Tool::Tolerance``).
 
 A solid is refused when it is invalid, is not one closed solid, lacks a curve on a face, has an
@@ -122,10 +124,10 @@ class ShapeReport:
         return []
 
 
-def analyse_shape(shape) -> ShapeReport:
-    """Full shape analysis of a ``TopoDS_Shape`` (see the module docstring)."""
+def analyse_shape(shape, slack: float = 0.0) -> ShapeReport:
+    """Full shape analysis of a ``TopoDS_Shape`` (see the module docstring); an edge counts as
+    off its face when the deviation exceeds its tolerance + ``slack`` (mm)."""
     from OCP.BRep import BRep_Tool
-    from OCP.BRepAdaptor import BRepAdaptor_Curve
     from OCP.BRepCheck import BRepCheck_Analyzer
     from OCP.BRepGProp import BRepGProp
     from OCP.GProp import GProp_GProps
@@ -149,14 +151,10 @@ def analyse_shape(shape) -> ShapeReport:
             edge_tol = max(edge_tol, tol)
             if BRep_Tool.Degenerated_s(edge):
                 continue
-            c3, cs = BRepAdaptor_Curve(edge), BRepAdaptor_Curve(edge, face)
-            a, b = c3.FirstParameter(), c3.LastParameter()
-            dev = max(c3.Value(u).Distance(cs.Value(u))
-                      for u in (a + (b - a) * i / (CURVE_SAMPLES - 1)
-                                for i in range(CURVE_SAMPLES)))
+            dev = _curve_on_surface(edge, face)
             worst = max(worst, dev)
             pairs += 1
-            off += dev > tol
+            off += dev > tol + slack
         faces.Next()
     verts = TopExp_Explorer(shape, TopAbs_VERTEX)
     while verts.More():
@@ -183,6 +181,39 @@ def analyse_shape(shape) -> ShapeReport:
                        max_curve_on_surface=float(worst), edges_off_surface=int(off),
                        max_edge_tolerance=float(edge_tol), max_vertex_tolerance=float(vert_tol),
                        volume=float(props.Mass()))
+
+
+def _same_frame(a, b) -> bool:
+    return all(abs(a.Value(i, j) - b.Value(i, j)) < 1e-12 for i in (1, 2, 3) for j in (1, 2, 3, 4))
+
+
+def _curve_on_surface(edge, face) -> float:
+    """Largest distance (mm) between an edge's 3-D curve and its curve on ``face`` at
+    :data:`CURVE_SAMPLES` parameters. The kernel's ``BRepLib_ValidateEdge`` compares the two
+    in their shared local frame; edges whose curve and face sit in different frames are
+    sampled here."""
+    from OCP.BRepAdaptor import BRepAdaptor_Curve
+    from OCP.BRepLib import BRepLib_ValidateEdge
+
+    c3, cs = BRepAdaptor_Curve(edge), BRepAdaptor_Curve(edge, face)
+    if _same_frame(c3.Trsf(), cs.Trsf()):
+        check = BRepLib_ValidateEdge(c3.Curve(), cs.CurveOnSurface(), True)
+        check.SetControlPointsNumber(CURVE_SAMPLES)
+        check.Process()
+        return float(check.GetMaxDistance())
+    a, b = c3.FirstParameter(), c3.LastParameter()
+    return max(c3.Value(u).Distance(cs.Value(u))
+               for u in (a + (b - a) * i / (CURVE_SAMPLES - 1) for i in range(CURVE_SAMPLES)))
+
+
+def shape_volume(shape) -> float:
+    """Volume (mm³) of a ``TopoDS_Shape`` by the kernel's volume integration."""
+    from OCP.BRepGProp import BRepGProp
+    from OCP.GProp import GProp_GProps
+
+    props = GProp_GProps()
+    BRepGProp.VolumeProperties_s(shape, props)
+    return float(props.Mass())
 
 
 def checked(shape, what: str) -> ShapeReport:
@@ -213,12 +244,20 @@ def read_step_shape(path: str):
 STEP_VOLUME_REL = 1e-4
 
 
+#: slack (mm) over the edge tolerance for curves on surface in a STEP as re-read: the files
+#: carry edges as 3-D curves only and the reader rebuilds each curve on its faces by
+#: projection; on the demo those rebuilt curves lie up to 3.9e-7 mm from the edge (the
+#: kernel's BRepLib_ValidateEdge), against 1e-7 mm tolerances; a lost or moved face is
+#: millimetres off
+STEP_PCURVE_SLACK = 1e-6
+
+
 def step_verifier(what: str, solids: int, volume: float, rel: float = STEP_VOLUME_REL):
     """A ``verify(path)`` for :func:`write_atomic`: the STEP as written re-reads as ``solids``
     solids passing the shape analysis, of total volume ``volume`` within ``rel``."""
     def verify(path: str) -> None:
         shape = read_step_shape(path)
-        report = analyse_shape(shape)
+        report = analyse_shape(shape, STEP_PCURVE_SLACK)
         errors = report.errors()
         if report.solids == solids and errors == [f"{solids} solids, expected one"]:
             errors = []          # an assembly holds several solids by design
@@ -252,8 +291,8 @@ def write_step_assembly(items, path: str, name: str) -> int:
         if not shape.isValid():
             raise GeometryError(f"assembly STEP: the solid of {part} is not valid")
         key = id(shape.wrapped.TShape())
-        if key not in seen:
-            seen[key] = checked(shape, part).volume
+        if key not in seen:   # each solid was analysed when its part's STEP was written
+            seen[key] = shape_volume(shape.wrapped)
         volume += seen[key]
         trsf = gp_Trsf()
         trsf.SetValues(*(float(T[i, j]) for i in range(3) for j in range(4)))
