@@ -45,7 +45,11 @@ def mesh_item(p, models) -> str:
     pic = p.get("picture")
     a, b = (models.get(n) for n in p["parts"])
     try:
-        if pic is not None:
+        numbers = p.get("numbers") or {}
+        if pic is not None and "swing" in numbers and a is not None and b is not None:
+            figs += _sector_figs(p, models, pic)
+            rows = list(pair_rows(pic[2], pic[3]))
+        elif pic is not None:
             poly1, poly2, pr, sw, rack = pic
             figs.append(mesh_svg(poly1, poly2, pr, sw, rack=rack, title=name))
             names = tuple(p["parts"])
@@ -64,6 +68,32 @@ def mesh_item(p, models) -> str:
     return (f'<article class="item" id="{anchor("mesh", name)}"><h3>{escape(name)}</h3>'
             f'<div class="figs">{"".join(figs)}</div>{table(rows)}'
             f'{findings_html(p["findings"])}</article>')
+
+
+def _sector_figs(p, models, pic):
+    """A sector pair: the static drawing at mid-swing with its ends, the mesh zone drawing
+    (tightest or worst pose of the swing sweep) and the pair moving over the whole swing."""
+    import math
+    from dataclasses import replace
+
+    from gen.export.report_motion import scene_svg
+    from gen.export.report_svg import mesh_svg
+    from gen.export.report_swing import placement, swing_scene, swing_svg
+
+    name, n = p["name"], p["numbers"]
+    poly1, poly2, pr, sw, _ = pic
+    g1, g2 = (models[k] for k in n["gear_order"])
+    pl = placement(g1, g2, pr, math.radians(n["swing"]))
+    rad = tuple(math.radians(v) for v in n.get("stops") or ()) or None
+    rad2 = tuple(math.radians(v) for v in n.get("stops_gear2") or ()) or None
+    figs = [swing_svg(pl, pr, rad, rad2, title=name)]
+    if sw is not None and sw.angle_at_overlap is not None:
+        # the swing sweep gives its worst angle from mid-swing: turn it into gear 1's own
+        # angle, as the picture's tightest angle already is
+        sw = replace(sw, angle_at_overlap=sw.angle_at_overlap + pl.mid)
+    figs.append(mesh_svg(poly1, poly2, pr, sw, title=f"{name} (mesh zone)"))
+    figs.append(scene_svg(swing_scene(pl, pr, name)))
+    return figs
 
 
 def _internal(a, b, center, title):
