@@ -154,6 +154,63 @@ def assembly_item(a, models, outcomes, out_dir) -> str:
             f'<div class="figs">{"".join(extra)}</div>{findings_html(a.findings)}</article>')
 
 
+def section_items(models, drivetrains) -> list:
+    """Axial sections: each lead screw in its nut (a nut of the same thread, when one is
+    declared), each nut left over on its own, each flywheel with its stress along the radius.
+    A drive train with the screw as a stage adds its figures to the screw's drawing."""
+    from gen.export.report_rotor import rotor_svg
+    from gen.export.report_screw import same_thread, screw_section_svg
+
+    def kind(m):
+        return getattr(m, "kind", "")
+
+    screws = [models[n] for n in sorted(models) if kind(models[n]) == "lead_screw"]
+    nuts = [models[n] for n in sorted(models) if kind(models[n]) == "screw_nut"]
+    used, out = set(), []
+
+    def item(name, parts, svg):
+        links = ", ".join(f'<a href="#{anchor("part", p)}">{escape(p)}</a>' for p in parts)
+        return (f'<article class="item" id="{anchor("section", name)}"><h3>{escape(name)}'
+                f'</h3><p>parts: {links}</p><div class="figs">{svg}</div></article>')
+
+    for sc in screws:
+        nut = next((n for n in nuts if n.name not in used and same_thread(sc, n)), None)
+        if nut is not None:
+            used.add(nut.name)
+        lines = []
+        for d in drivetrains:
+            for st in (d.numbers or {}).get("stages", []):
+                if st.get("name") == sc.name:
+                    lines.append(f"drive train {d.name}: {fmt(st.get('speed_out'))} out, "
+                                 f"{fmt(st.get('torque_out'))} N out at the nut, margin "
+                                 f"{fmt(st.get('margin'))}")
+        names = [sc.name] + ([nut.name] if nut is not None else [])
+        title = " in ".join(names)
+        try:
+            svg = screw_section_svg(sc, nut, title=title, drive_lines=lines)
+        except Exception as exc:   # a drawing that cannot be made is said on the page
+            svg = f'<p class="muted">no drawing: {escape(str(exc))}</p>'
+        out.append(item(title, names, svg))
+    for nut in nuts:
+        if nut.name in used:
+            continue
+        try:
+            svg = screw_section_svg(None, nut, title=f"{nut.name} (screw: basic profile)")
+        except Exception as exc:
+            svg = f'<p class="muted">no drawing: {escape(str(exc))}</p>'
+        out.append(item(nut.name, [nut.name], svg))
+    for name in sorted(models):
+        m = models[name]
+        if kind(m) != "flywheel":
+            continue
+        try:
+            svg = rotor_svg(m, f"{name}: section and stress along the radius")
+        except Exception as exc:
+            svg = f'<p class="muted">no drawing: {escape(str(exc))}</p>'
+        out.append(item(name, [name], svg))
+    return out
+
+
 def drivetrain_item(d) -> str:
     n = d.numbers
     if "stages" in n:
@@ -202,6 +259,7 @@ def render(result, *, out_dir=None, outcomes=None, title="pitchline build report
     asm = [assembly_item(a, models, outcomes, out_dir) for a in result.assemblies]
     for a in result.assemblies:
         group(anchor("assembly", a.name), a.name, a.findings)
+    cuts = section_items(models, result.drivetrains)
     trains = [drivetrain_item(d) for d in result.drivetrains]
     for d in result.drivetrains:
         group(anchor("train", d.name), d.name, d.findings)
@@ -217,6 +275,7 @@ def render(result, *, out_dir=None, outcomes=None, title="pitchline build report
         ("parts", "Parts", f'<div class="cards">{"".join(cards)}</div>' if cards else ""),
         ("meshes", "Meshes", "".join(meshes)),
         ("drives", "Belt drives", "".join(drives)),
+        ("sections", "Screws, nuts and rotors in section", "".join(cuts)),
         ("assemblies", "Assemblies", "".join(asm)),
         ("trains", "Drive trains", "".join(trains)),
         ("project", "Other findings", project),

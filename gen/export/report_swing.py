@@ -143,14 +143,24 @@ def swing_svg(pl: SwingPlacement, pair, stops=None, stops2=None, title: str = ""
     ghost = (f'fill="none" stroke-width="{_n(0.8 * px)}" stroke-dasharray='
              f'"{_n(10 * px)} {_n(2.5 * px)} {_n(1.5 * px)} {_n(2.5 * px)} {_n(1.5 * px)} '
              f'{_n(2.5 * px)}"')
-    for k, pose in enumerate(end_poses):
-        for i, poly in enumerate(pose):
-            out.append(f'<path class="swing-end end-{k}" stroke="{MEMBER_STYLES[i][1]}" '
-                       f'{ghost} d="{_d(poly)}"/>')
-    for i, poly in enumerate(mid_pose):
+    # each outline written once, in its own frame; every pose is a <use> turned into place
+    out.insert(2, "<defs>" + "".join(f'<path id="{uid}o{i}" d="{_d(poly)}"/>'
+                                     for i, poly in enumerate(pl.polys)) + "</defs>")
+
+    def placed(i, phi):
+        a = pl.angles(phi)[i]
+        shift = "" if i == 0 else f"translate({_n(C)} 0) "
+        return f'transform="{shift}rotate({_n(math.degrees(a))})"'
+
+    for k, phi in enumerate((e0, e1)):
+        for i in range(2):
+            out.append(f'<use href="#{uid}o{i}" class="swing-end end-{k}" {placed(i, phi)} '
+                       f'stroke="{MEMBER_STYLES[i][1]}" {ghost}/>')
+    for i in range(2):
         fill, line = MEMBER_STYLES[i]
-        out.append(f'<path class="outline member-{i + 1}" fill="{fill}" fill-opacity="0.85" '
-                   f'stroke="{line}" stroke-width="{_n(1.0 * px)}" d="{_d(poly)}"/>')
+        out.append(f'<use href="#{uid}o{i}" class="outline member-{i + 1}" {placed(i, pl.mid)} '
+                   f'fill="{fill}" fill-opacity="0.85" stroke="{line}" '
+                   f'stroke-width="{_n(1.0 * px)}"/>')
     area, rings = overlap_regions(*mid_pose)
     if area > 0 and rings:
         out.append(f'<path class="overlap" fill="{WARN}" stroke="{WARN}" '
@@ -211,7 +221,7 @@ def swing_svg(pl: SwingPlacement, pair, stops=None, stops2=None, title: str = ""
         fill = WARN if text.startswith(("overlap", "hard")) else "#1d1f22"
         out.append(f'<text class="{cls}" x="10" y="{y + 17 * k}" fill="{fill}">'
                    f'{escape(text)}</text>')
-    out.append(f'<text x="{W - 8}" y="22" text-anchor="end" fill="#444">dash-dotted: '
-               "swing ends</text>")
+    out.append(f'<text x="{W - 8}" y="22" text-anchor="end" fill="#444">dash-dot-dot: '
+               "swing ends; red ticks: hard stops</text>")
     out.append("</svg>")
     return "\n".join(out) + "\n"
