@@ -1,7 +1,8 @@
 """Benchmark: the whole-build report for the demo (issue 18). Targets: written in ≤ 10 % of
 the demo's build time, page ≤ 2 MB. Builds the demo once (STEP + STL, as `pitchline build`
-does), then times the report alone (best of three) from the files written, and the check-mode
-page (outlines, no files). Prints the figures.
+does), then times the report alone (best of three) from the files written, the check-mode
+page (outlines, no files), and the section and sector-swing drawings on their own. Prints the
+figures.
 
 Run: python benchmarks/bench_report.py [--out DIR]   (DIR keeps the build; default a
 temporary folder)
@@ -56,6 +57,20 @@ def main():
         print(f"page size: {size / 1e6:.2f} MB (target ≤ 2 MB)")
         print(f"check-mode page (outlines): {t_checkpage:.2f} s, "
               f"{os.path.getsize(check_page) / 1e6:.2f} MB")
+        # the drawings of issues 15, 16 and 18 item 2 on their own
+        from gen.export.report_build import mesh_item, section_items
+
+        t = time.perf_counter()
+        cuts = section_items(result.models, result.drivetrains)
+        t_cuts = time.perf_counter() - t
+        sectors = [p for p in result.pairs if "swing" in (p.get("numbers") or {})]
+        t = time.perf_counter()
+        swings = [mesh_item(p, result.models) for p in sectors]
+        t_swing = time.perf_counter() - t
+        print(f"screw, nut and rotor sections: {len(cuts)} drawings, {t_cuts:.3f} s, "
+              f"{sum(map(len, cuts)) / 1e3:.0f} kB")
+        print(f"sector pairs over the swing: {len(swings)} items, {t_swing:.3f} s, "
+              f"{sum(map(len, swings)) / 1e3:.0f} kB")
     finally:
         shutil.rmtree(tmp, ignore_errors=True)   # --out DIR is kept
 

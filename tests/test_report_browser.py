@@ -15,7 +15,7 @@ CHROMIUM = next((shutil.which(n) for n in ("chromium", "chromium-browser") if sh
                 None)
 pytestmark = pytest.mark.skipif(CHROMIUM is None, reason="no chromium on this machine "
                                 "(apt-get install -y chromium; .ci/run installs it)")
-WIDTH, HEIGHT = 1280, 20000
+WIDTH, HEIGHT = 1280, 24000   # the demo page is ~20 000 px tall at this width
 FLAGS = ["--headless", "--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run",
          "--disable-background-networking", "--disable-component-update", "--disable-sync",
          "--hide-scrollbars", "--enable-logging=stderr", "--v=0"]

@@ -45,7 +45,11 @@ def mesh_item(p, models) -> str:
     pic = p.get("picture")
     a, b = (models.get(n) for n in p["parts"])
     try:
-        if pic is not None:
+        numbers = p.get("numbers") or {}
+        if pic is not None and "swing" in numbers and a is not None and b is not None:
+            figs += _sector_figs(p, models, pic)
+            rows = list(pair_rows(pic[2], pic[3]))
+        elif pic is not None:
             poly1, poly2, pr, sw, rack = pic
             figs.append(mesh_svg(poly1, poly2, pr, sw, rack=rack, title=name))
             names = tuple(p["parts"])
@@ -64,6 +68,32 @@ def mesh_item(p, models) -> str:
     return (f'<article class="item" id="{anchor("mesh", name)}"><h3>{escape(name)}</h3>'
             f'<div class="figs">{"".join(figs)}</div>{table(rows)}'
             f'{findings_html(p["findings"])}</article>')
+
+
+def _sector_figs(p, models, pic):
+    """A sector pair: the static drawing at mid-swing with its ends, the mesh zone drawing
+    (tightest or worst pose of the swing sweep) and the pair moving over the whole swing."""
+    import math
+    from dataclasses import replace
+
+    from gen.export.report_motion import scene_svg
+    from gen.export.report_svg import mesh_svg
+    from gen.export.report_swing import placement, swing_scene, swing_svg
+
+    name, n = p["name"], p["numbers"]
+    poly1, poly2, pr, sw, _ = pic
+    g1, g2 = (models[k] for k in n["gear_order"])
+    pl = placement(g1, g2, pr, math.radians(n["swing"]))
+    rad = tuple(math.radians(v) for v in n.get("stops") or ()) or None
+    rad2 = tuple(math.radians(v) for v in n.get("stops_gear2") or ()) or None
+    figs = [swing_svg(pl, pr, rad, rad2, title=name)]
+    if sw is not None and sw.angle_at_overlap is not None:
+        # the swing sweep gives its worst angle from mid-swing: turn it into gear 1's own
+        # angle, as the picture's tightest angle already is
+        sw = replace(sw, angle_at_overlap=sw.angle_at_overlap + pl.mid)
+    figs.append(mesh_svg(poly1, poly2, pr, sw, title=f"{name} (mesh zone)"))
+    figs.append(scene_svg(swing_scene(pl, pr, name)))
+    return figs
 
 
 def _internal(a, b, center, title):
@@ -124,6 +154,63 @@ def assembly_item(a, models, outcomes, out_dir) -> str:
             f'<div class="figs">{"".join(extra)}</div>{findings_html(a.findings)}</article>')
 
 
+def section_items(models, drivetrains) -> list:
+    """Axial sections: each lead screw in its nut (a nut of the same thread, when one is
+    declared), each nut left over on its own, each flywheel with its stress along the radius.
+    A drive train with the screw as a stage adds its figures to the screw's drawing."""
+    from gen.export.report_rotor import rotor_svg
+    from gen.export.report_screw import same_thread, screw_section_svg
+
+    def kind(m):
+        return getattr(m, "kind", "")
+
+    screws = [models[n] for n in sorted(models) if kind(models[n]) == "lead_screw"]
+    nuts = [models[n] for n in sorted(models) if kind(models[n]) == "screw_nut"]
+    used, out = set(), []
+
+    def item(name, parts, svg):
+        links = ", ".join(f'<a href="#{anchor("part", p)}">{escape(p)}</a>' for p in parts)
+        return (f'<article class="item" id="{anchor("section", name)}"><h3>{escape(name)}'
+                f'</h3><p>parts: {links}</p><div class="figs">{svg}</div></article>')
+
+    for sc in screws:
+        nut = next((n for n in nuts if n.name not in used and same_thread(sc, n)), None)
+        if nut is not None:
+            used.add(nut.name)
+        lines = []
+        for d in drivetrains:
+            for st in (d.numbers or {}).get("stages", []):
+                if st.get("name") == sc.name:
+                    lines.append(f"drive train {d.name}: {fmt(st.get('speed_out'))} out, "
+                                 f"{fmt(st.get('torque_out'))} N out at the nut, margin "
+                                 f"{fmt(st.get('margin'))}")
+        names = [sc.name] + ([nut.name] if nut is not None else [])
+        title = " in ".join(names)
+        try:
+            svg = screw_section_svg(sc, nut, title=title, drive_lines=lines)
+        except Exception as exc:   # a drawing that cannot be made is said on the page
+            svg = f'<p class="muted">no drawing: {escape(str(exc))}</p>'
+        out.append(item(title, names, svg))
+    for nut in nuts:
+        if nut.name in used:
+            continue
+        try:
+            svg = screw_section_svg(None, nut, title=f"{nut.name} (screw: basic profile)")
+        except Exception as exc:
+            svg = f'<p class="muted">no drawing: {escape(str(exc))}</p>'
+        out.append(item(nut.name, [nut.name], svg))
+    for name in sorted(models):
+        m = models[name]
+        if kind(m) != "flywheel":
+            continue
+        try:
+            svg = rotor_svg(m, f"{name}: section and stress along the radius")
+        except Exception as exc:
+            svg = f'<p class="muted">no drawing: {escape(str(exc))}</p>'
+        out.append(item(name, [name], svg))
+    return out
+
+
 def drivetrain_item(d) -> str:
     n = d.numbers
     if "stages" in n:
@@ -172,6 +259,7 @@ def render(result, *, out_dir=None, outcomes=None, title="pitchline build report
     asm = [assembly_item(a, models, outcomes, out_dir) for a in result.assemblies]
     for a in result.assemblies:
         group(anchor("assembly", a.name), a.name, a.findings)
+    cuts = section_items(models, result.drivetrains)
     trains = [drivetrain_item(d) for d in result.drivetrains]
     for d in result.drivetrains:
         group(anchor("train", d.name), d.name, d.findings)
@@ -187,6 +275,7 @@ def render(result, *, out_dir=None, outcomes=None, title="pitchline build report
         ("parts", "Parts", f'<div class="cards">{"".join(cards)}</div>' if cards else ""),
         ("meshes", "Meshes", "".join(meshes)),
         ("drives", "Belt drives", "".join(drives)),
+        ("sections", "Screws, nuts and rotors in section", "".join(cuts)),
         ("assemblies", "Assemblies", "".join(asm)),
         ("trains", "Drive trains", "".join(trains)),
         ("project", "Other findings", project),

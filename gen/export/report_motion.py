@@ -6,6 +6,8 @@ for a pinion in a ring, the Tredgold virtual outlines for bevel pairs).
 Every member turns (and a rack slides) linearly with the first member's angle θ, so one
 rotation/translation animation per member from θ = −π/z₁ to +π/z₁ reproduces the sweep's
 poses exactly; the end pose repeats the start pose one tooth on, so the loop is seamless.
+A sector pair (``cycle="swing"``, :mod:`gen.export.report_swing`) instead swings from one end
+of its swing to the other and back (``values="a;b;a"``), so it too loops without a jump.
 Overlap is computed at a fixed number of frames (:func:`gen.validate.overlap_frames.
 overlap_regions`) and painted, frame by frame, in the warning colour with its area.
 
@@ -72,7 +74,7 @@ class Member:
     outer_radius: float | None = None
 
     def at(self, t: float) -> np.ndarray:
-        """World outline at cycle fraction t ∈ [0, 1]."""
+        """World outline at travel fraction t ∈ [0, 1] (start → end of ``rot``/``shift``)."""
         a = self.rot[0] + t * (self.rot[1] - self.rot[0])
         s = np.asarray(self.shift[0]) + t * (np.asarray(self.shift[1]) - np.asarray(self.shift[0]))
         return _rot(self.poly, a) + s
@@ -89,11 +91,30 @@ class MeshScene:
     circles: tuple = ()            # ((cx, cy), r, "pitch" | "base")
     lines: tuple = ()              # ((x0, y0), (x1, y1), "pitch")
     note: str = ""
-    overlap: tuple = field(default=())   # per frame (t, area, rings)
+    overlap: tuple = field(default=())   # per frame (when, area, rings); when: ((t0, t1), ...)
+    cycle: str = "pitch"           # "pitch": start → end, looped; "swing": start → end → start
+    seconds: float = SECONDS       # one whole cycle (s)
 
     @property
     def max_overlap(self) -> float:
         return max((a for _, a, _ in self.overlap), default=0.0)
+
+
+def _frame_slots(cycle: str, frames: int):
+    """(travel fraction, ((t0, t1), ...) cycle-time intervals showing it) per frame.
+
+    "pitch": frame i at travel i/n, shown over [i/n, (i+1)/n). "swing": the cycle goes out
+    and back, 2n slots of 1/(2n); travel i/n is reached in slot i (out) and slot 2n − i
+    (back), so each pose is measured once and shown in both slots.
+    """
+    n = frames
+    if cycle == "pitch":
+        return [(i / n, ((i / n, (i + 1) / n),)) for i in range(n)]
+    out = []
+    for i in range(n + 1):
+        slots = sorted({i, (2 * n - i) % (2 * n)})
+        out.append((i / n, tuple((j / (2 * n), (j + 1) / (2 * n)) for j in slots)))
+    return out
 
 
 def with_overlap(scene: MeshScene, frames: int = FRAMES) -> MeshScene:
@@ -102,8 +123,7 @@ def with_overlap(scene: MeshScene, frames: int = FRAMES) -> MeshScene:
 
     a, b = scene.members
     out = []
-    for i in range(frames):
-        t = i / frames
+    for t, when in _frame_slots(scene.cycle, frames):
         pa, pb = a.at(t), b.at(t)
         if b.hole:
             centre = tuple(np.asarray(b.shift[0]) + t * (np.asarray(b.shift[1]) - np.asarray(b.shift[0])))
@@ -111,7 +131,7 @@ def with_overlap(scene: MeshScene, frames: int = FRAMES) -> MeshScene:
                                           outer_radius=b.outer_radius, center=centre)
         else:
             area, rings = overlap_regions(pa, pb)
-        out.append((t, area, tuple(rings)))
+        out.append((when, area, tuple(rings)))
     return MeshScene(**{**scene.__dict__, "overlap": tuple(out)})
 
 
@@ -203,15 +223,27 @@ class _Map:
         return f"matrix({_n(s)} 0 0 {_n(-s)} {_n(self.ox - s * self.cx)} {_n(self.oy + s * self.cy)})"
 
 
-def scene_svg(scene: MeshScene, *, uid: str | None = None, seconds: float = SECONDS) -> str:
+def _motion(kind: str, a: str, b: str, dur: str, cycle: str) -> str:
+    """SMIL transform animation from ``a`` to ``b`` (and back for a swing), looped."""
+    if cycle == "swing":
+        span = f'values="{a};{b};{a}" keyTimes="0;0.5;1"'
+    else:
+        span = f'from="{a}" to="{b}"'
+    return (f'<animateTransform attributeName="transform" type="{kind}" {span} dur="{dur}" '
+            f'repeatCount="indefinite"/>')
+
+
+def scene_svg(scene: MeshScene, *, uid: str | None = None, seconds: float | None = None) -> str:
     """The animated SVG of ``scene``: the whole mesh and the magnified mesh zone, both moving."""
     uid = uid or "m" + hashlib.sha1((scene.title + _d(scene.members[0].poly[:50])).encode()
                                     ).hexdigest()[:8]
-    dur = f"{_n(seconds)}s"
+    dur = f"{_n(seconds or scene.seconds)}s"
+    what = ("swinging from one end of its swing to the other and back" if scene.cycle == "swing"
+            else "moving through one pitch")
     out = [f'<svg xmlns="http://www.w3.org/2000/svg" xmlns:xlink="http://www.w3.org/1999/xlink" '
            f'class="motion" width="{W}" height="{H}" viewBox="0 0 {W} {H}" '
            f'font-family="Helvetica, Arial, sans-serif" font-size="12">',
-           f"<title>{escape(scene.title)} moving through one pitch</title>", "<defs>"]
+           f"<title>{escape(scene.title)} {what}</title>", "<defs>"]
     for i, m in enumerate(scene.members):
         d = _d(m.poly)
         if m.hole:   # ring gear: rim circle and toothed hole, even-odd
@@ -238,12 +270,10 @@ def scene_svg(scene: MeshScene, *, uid: str | None = None, seconds: float = SECO
             r0, r1 = math.degrees(m.rot[0]), math.degrees(m.rot[1])
             out.append(f'<g class="member" transform="translate({_n(sx0)} {_n(sy0)})">')
             if (sx0, sy0) != (sx1, sy1):
-                out.append(f'<animateTransform attributeName="transform" type="translate" '
-                           f'from="{_n(sx0)} {_n(sy0)}" to="{_n(sx1)} {_n(sy1)}" dur="{dur}" '
-                           f'repeatCount="indefinite"/>')
-            out.append(f'<g transform="rotate({_n(r0)})"><animateTransform attributeName='
-                       f'"transform" type="rotate" from="{_n(r0)}" to="{_n(r1)}" dur="{dur}" '
-                       f'repeatCount="indefinite"/>')
+                out.append(_motion("translate", f"{_n(sx0)} {_n(sy0)}", f"{_n(sx1)} {_n(sy1)}",
+                                   dur, scene.cycle))
+            out.append(f'<g transform="rotate({_n(r0)})">'
+                       + _motion("rotate", _n(r0), _n(r1), dur, scene.cycle))
             out.append(f'<use href="#{uid}o{i}" xlink:href="#{uid}o{i}" fill="{fill}" '
                        f'fill-opacity="0.85" stroke="{line}" stroke-width="{_n(1.0 * px)}"/>')
             out.append("</g></g>")
@@ -272,27 +302,42 @@ def _marks(scene, px):
     return out
 
 
-def _frame_anim(attr: str, t0: float, t1: float, dur: str, on: str, off: str) -> str:
-    """Discrete animation showing ``on`` from cycle fraction t0 to t1, ``off`` otherwise."""
-    if t0 <= 0:
-        values, times = f"{on};{off}", f"0;{_n(t1)}"
-    else:
-        values, times = f"{off};{on};{off}", f"0;{_n(t0)};{_n(t1)}"
-    return (f'<animate attributeName="{attr}" values="{values}" keyTimes="{times}" '
-            f'calcMode="discrete" dur="{dur}" repeatCount="indefinite"/>')
+def _frame_anim(attr: str, when, dur: str, on: str, off: str) -> str:
+    """Discrete animation showing ``on`` over the cycle-fraction intervals ``when`` ((t0, t1),
+    ...: sorted, not overlapping), ``off`` otherwise."""
+    steps = [(0.0, off)]
+    for t0, t1 in when:
+        steps += [(t0, on), (t1, off)]
+    keep = []
+    for t, v in steps:
+        if t >= 1.0 - 1e-12:
+            continue
+        if keep and abs(keep[-1][0] - t) < 1e-12:
+            keep[-1] = (keep[-1][0], v)      # same instant: the later change wins
+        else:
+            keep.append((t, v))
+    merged = [keep[0]]
+    for t, v in keep[1:]:
+        if v != merged[-1][1]:
+            merged.append((t, v))
+    return (f'<animate attributeName="{attr}" values="{";".join(v for _, v in merged)}" '
+            f'keyTimes="{";".join(_n(t) for t, _ in merged)}" calcMode="discrete" dur="{dur}" '
+            f'repeatCount="indefinite"/>')
+
+
+def _shown_first(when) -> str:
+    return "visible" if when and when[0][0] <= 1e-12 else "hidden"
 
 
 def _overlap(scene, dur, px):
     out = []
-    n = len(scene.overlap)
-    for i, (t, area, rings) in enumerate(scene.overlap):
+    for when, area, rings in scene.overlap:
         if not rings or area <= 0:
             continue
         d = " ".join(_d(r) for r in rings)
-        first = "visible" if i == 0 else "hidden"
-        out.append(f'<path class="overlap" visibility="{first}" fill="{WARN}" stroke="{WARN}" '
-                   f'stroke-width="{_n(1.5 * px)}" d="{d}">'
-                   f'{_frame_anim("visibility", t, t + 1.0 / n, dur, "visible", "hidden")}</path>')
+        out.append(f'<path class="overlap" visibility="{_shown_first(when)}" fill="{WARN}" '
+                   f'stroke="{WARN}" stroke-width="{_n(1.5 * px)}" d="{d}">'
+                   f'{_frame_anim("visibility", when, dur, "visible", "hidden")}</path>')
     return out
 
 
@@ -319,14 +364,12 @@ def _legend(scene, dur):
             out.append(f'<text class="overlap-label" x="{x + 18}" y="{y}" fill="{WARN}" '
                        f'font-weight="bold">overlap up to {worst:.4f} mm²</text>')
             # the area of the frame on show, frame by frame
-            n = len(scene.overlap)
-            for i, (t, area, _) in enumerate(scene.overlap):
+            for when, area, _ in scene.overlap:
                 if area > 0:
-                    first = "visible" if i == 0 else "hidden"
                     out.append(f'<text class="overlap-area" x="{W - 8}" y="{_PANELS[1][1] + 14}" '
-                               f'text-anchor="end" fill="{WARN}" visibility="{first}">'
-                               f'overlap {area:.4f} mm²'
-                               f'{_frame_anim("visibility", t, t + 1.0 / n, dur, "visible", "hidden")}'
+                               f'text-anchor="end" fill="{WARN}" '
+                               f'visibility="{_shown_first(when)}">overlap {area:.4f} mm²'
+                               f'{_frame_anim("visibility", when, dur, "visible", "hidden")}'
                                f'</text>')
         else:
             out.append(f'<text class="overlap-label" x="{x}" y="{y}">no overlap in '

@@ -37,6 +37,7 @@ _STYLE = {
     "action": "#D55E00",
     "coast": "#E69F00",
     "tight": "#111111",
+    "overlap": "#D55E00",   # Okabe–Ito vermillion: the report's warning colour
 }
 
 
@@ -96,12 +97,22 @@ def mesh_svg(poly1: np.ndarray, poly2: np.ndarray, pair: PairResult,
              title: str = "") -> str:
     """SVG text of the mesh; outlines in their own frames as the sweep takes them.
 
-    With a sweep the members are drawn at its tightest angle and the tightest gap is marked;
-    without one at the centred starting phase. A rack needs its ``rack`` sizes for placing.
+    With a sweep the members are drawn at its tightest angle and the tightest gap is marked,
+    or, when the sweep found the teeth overlapping, at its largest overlap; without one at the
+    centred starting phase (the mounted pose). A rack needs its ``rack`` sizes for placing.
+    Where the outlines overlap in the pose drawn the common region is painted in the warning
+    colour and its area written (:func:`gen.validate.overlap_frames.overlap_regions`, the
+    same measure as the moving picture's).
     """
+    from gen.validate.overlap_frames import overlap_regions
+
     pose = sweep.pose if sweep is not None else mesh_pose(pair, rack)
-    theta = sweep.angle_at_min if sweep is not None else 0.0
+    worst = (sweep is not None and sweep.overlap_area > 0
+             and sweep.angle_at_overlap is not None)
+    theta = (sweep.angle_at_overlap if worst else sweep.angle_at_min if sweep is not None
+             else 0.0)
     w1, w2 = pose.at(poly1, poly2, theta)
+    over_area, over_rings = overlap_regions(w1, w2)
     ra1 = pair.tip_radii[0]
     t1, t2, a_pt, e_pt, p_pt = _line_of_action(pair)
     st = _STYLE
@@ -143,6 +154,10 @@ def mesh_svg(poly1: np.ndarray, poly2: np.ndarray, pair: PairResult,
                    f'{_stroke(k, 1.0)}/>')
         out.append(f'<use xlink:href="#{uid}m2" href="#{uid}m2" fill="{st["fill2"]}" stroke="{st["line2"]}" '
                    f'{_stroke(k, 1.0)} fill-opacity="0.9"/>')
+        if over_area > 0 and over_rings:
+            d = " ".join(_path_d(r) for r in over_rings)
+            out.append(f'<path class="overlap" fill="{st["overlap"]}" stroke="{st["overlap"]}" '
+                       f'{_stroke(k, 1.2)} d="{d}"/>')
         out.extend(_reference_marks(pair, k))
         # line of action (drive), its mirror (coast), the active contact path
         tm = np.array([1.0, -1.0]) if pair.kind == PAIR else np.array([-1.0, 1.0])
@@ -158,9 +173,18 @@ def mesh_svg(poly1: np.ndarray, poly2: np.ndarray, pair: PairResult,
                f'whole {"pair" if pair.kind == PAIR else "pinion and rack"}</text>')
     out.append(f'<text x="{_PANELS[1][0] + 8}" y="{_PANELS[1][1] + 18}" fill="{st["ink"]}">'
                f'mesh zone, {_n(zoom.s)} px/mm</text>')
-    if sweep is not None and len(sweep.tight_segment) == 2:
+    if sweep is not None and len(sweep.tight_segment) == 2 and not worst:
         out.extend(_tight_marker(zoom, sweep))
-    out.extend(_key(pair, sweep))
+    if over_area > 0 or worst:
+        x, y, w, h = _PANELS[1]
+        where = "largest overlap of the sweep" if worst else "overlap in the pose drawn"
+        shown = f"{over_area:.4f} mm² at {math.degrees(theta):.2f}°"
+        if worst and abs(over_area - sweep.overlap_area) > 1e-4:
+            shown += f" (sweep: {sweep.overlap_area:.4f} mm²)"
+        out.append(f'<text class="overlap-label" x="{_n(x + w - 12)}" y="{_n(y + h - 14)}" '
+                   f'text-anchor="end" font-weight="bold" fill="{st["overlap"]}">'
+                   f'{escape(where)}: {escape(shown)}</text>')
+    out.extend(_key(pair, sweep, over_area > 0))
     out.append("</svg>")
     return "\n".join(out) + "\n"
 
@@ -222,7 +246,7 @@ def _tight_marker(panel: _Panel, sweep: SweepResult):
     ]
 
 
-def _key(pair: PairResult, sweep: SweepResult | None):
+def _key(pair: PairResult, sweep: SweepResult | None, overlap: bool = False):
     st = _STYLE
     y = HEIGHT - 26
     items = [
@@ -232,8 +256,10 @@ def _key(pair: PairResult, sweep: SweepResult | None):
         ("dash", st["base"], "1.5 3", "base circle"),
         ("dash", st["action"], "", "line of action, contact path"),
     ]
-    if sweep is not None:
+    if sweep is not None and not overlap:
         items.append(("ring", st["tight"], "", "tightest gap"))
+    if overlap:
+        items.append(("swatch", st["overlap"], st["overlap"], "overlap"))
     out = ['<g class="key">']
     x = 16
     for kind, a, b, text in items:

@@ -162,3 +162,46 @@ def permissible_unbalance(grade: float, omega: float, mass_kg: float) -> Unbalan
                          value=(grade, omega, mass_kg))
     e = grade / omega
     return Unbalance(grade, omega, e, mass_kg * 1000.0 * e)
+
+
+@dataclass(frozen=True, eq=False)
+class StressCurve:
+    """Stresses along the radius of a rotor at one speed, for drawing (mm, MPa).
+
+    ``radial``/``hoop`` are the constant-thickness disc of the rotor's outer and bore radii
+    (:func:`disc_stresses`); for a rim + web rotor ``ring_r``/``ring_hoop`` add the thin-ring
+    hoop stress ρω²r² across the rim (None for a plain disc). ``peak`` is the estimate of
+    :func:`rotor_stress` and ``peak_radius`` where it acts.
+    """
+
+    r: np.ndarray
+    radial: np.ndarray
+    hoop: np.ndarray
+    ring_r: np.ndarray | None
+    ring_hoop: np.ndarray | None
+    peak: RotorStress
+    peak_radius: float
+    allowable: float          # the material's strength (MPa, its ``strength_kind``)
+
+
+def stress_curve(rotor: Rotor, mat: str | RotorMaterial, omega: float,
+                 samples: int = 121) -> StressCurve:
+    """Radial and hoop stress against radius at ``omega`` (rad/s), with the peak estimate.
+
+    The disc curves are Timoshenko's closed forms (module notes) over [bore, outer radius];
+    the rim curve (rim + web rotors) is the thin-ring hoop stress over the rim's radii.
+    """
+    if samples < 2:
+        raise ParamError("a stress curve needs at least 2 samples", key="samples",
+                         value=samples)
+    m = rotor_material(mat)
+    a, b = rotor.bore_radius, rotor.outer_radius
+    r = np.linspace(a, b, samples)
+    sr, st = disc_stresses(r, omega, m.density, m.poisson, b, a)
+    ring_r = ring = None
+    if not rotor.is_plain:
+        ring_r = np.linspace(b - rotor.rim_width, b, max(2, samples // 4))
+        ring = _k(m.density, omega) * ring_r * ring_r
+    peak = rotor_stress(rotor, m, omega)
+    where = {"centre": 0.0, "bore": a, "rim": b}[peak.where]
+    return StressCurve(r, sr, st, ring_r, ring, peak, where, m.strength)
