@@ -148,6 +148,11 @@ CODES = {
     "rotor-margin": "the rotor's safety factor at its speed is below the stated least",
     "rotor-stress-method": "how a rotor's peak stress was estimated and what is left out",
     "mass-mismatch": "mass properties measured on the triangles differ from the section's",
+    # issue 15/16 (kinds3): anti-backlash split nut, flywheel bolt circle
+    "split-nut": "slit, bridge, preload screw and float take-up of an anti-backlash nut",
+    "split-measure": "a split nut's slit, bridge or preload hole measured on the triangles differs",
+    "bolt-circle": "bolt holes of a rotor and the stress they raise",
+    "bolt-measure": "a rotor's bolt holes measured on the triangles differ from their layout",
 }
 
 

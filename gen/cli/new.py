@@ -44,6 +44,23 @@ def _fmt(value) -> str:
     return str(value)
 
 
+def _map_subs(key) -> str:
+    """Sub-keys of a mapping key, each with its default when it has one (``slit: 1``)."""
+    out = []
+    for k in key.sub:
+        if k.required or k.default is None:
+            out.append(k.name)
+        else:
+            out.append(f"{k.name}: {_fmt(k.default)}")
+    return ", ".join(out)
+
+
+def _map_units(key) -> str:
+    """``; units: slit mm, bridge deg`` for the sub-keys that have a unit ('' when none)."""
+    units = [f"{k.name} {k.unit}" for k in key.sub if k.unit]
+    return f"; units: {', '.join(units)}" if units else ""
+
+
 def _doc(key, bevel: bool) -> str:
     if bevel and key.name == "module":
         return BEVEL_MODULE_DOC
@@ -61,8 +78,8 @@ def key_lines(keys, example: dict, indent: str, *, skip=(), bevel: bool = False)
             continue  # keys that only exist so trains can pass shared values through
         req = "required" if key.required else ""
         if key.kind == "map" and key.name not in example:
-            subs = ", ".join(k.name for k in key.sub)
-            lines.append(f"{indent}# {key.name}: {{{subs}}}    # {key.doc}")
+            lines.append(f"{indent}# {key.name}: {{{_map_subs(key)}}}    # {key.doc}"
+                         + _map_units(key))
             continue
         comment = "; ".join(x for x in (req, _doc(key, bevel), key.range_text()) if x)
         if key.name in example:

@@ -11,6 +11,10 @@ axis, z along it, both mm — revolved a full turn about the z axis. Two layouts
 Either layout may have a motor pocket (a cylindrical recess of diameter d_p and depth h_p cut
 from the face z = 0, inside the rim) and the rim + web layout may have lightening holes:
 ``count`` axial through-holes of diameter d_h on a circle of radius R_c, all in the web.
+Either layout may have a bolt circle (``bolts``): ``count`` ≥ 2 axial holes through the hub
+(or the disc, or the web), each in material of one constant thickness, with a wall of
+:data:`gen.tolerances.LIMITS.min_wall` to the bore, to each other, to the lightening holes
+and to the edges of that material.
 
 The section is built from axis-aligned rectangles on a grid of their edges, so it is exact;
 its outline is traced into one counter-clockwise polygon. Mass properties come from that
@@ -65,6 +69,7 @@ class Rotor:
     web_offset: float | None = None
     pocket: Pocket | None = None
     holes: Holes | None = None
+    bolts: Holes | None = None
 
     @property
     def outer_radius(self) -> float:
@@ -315,13 +320,96 @@ def hole_slab(rotor: Rotor) -> tuple[float, float]:
     return slabs.pop()
 
 
+def _slabs_over(rotor: Rotor, lo: float, hi: float) -> set:
+    """The (z0, z1) slabs of material crossed at radii lo … hi (None: a column that is not
+    one unbroken slab, or no material)."""
+    g = cell_grid(rotor)
+    slabs = set()
+    for i in range(len(g.r) - 1):
+        if g.r[i + 1] <= lo or g.r[i] >= hi:
+            continue
+        js = np.nonzero(g.filled[i])[0]
+        if len(js) == 0 or np.any(np.diff(js) != 1):
+            slabs.add(None)
+        else:
+            slabs.add((float(g.z[js[0]]), float(g.z[js[-1] + 1])))
+    return slabs
+
+
+def hole_centres(h: Holes) -> np.ndarray:
+    """(count, 2) centres (mm) of a hole circle, hole 0 on +X (as the builders place them)."""
+    a = 2.0 * math.pi * np.arange(h.count) / h.count
+    return h.circle_radius * np.column_stack([np.cos(a), np.sin(a)])
+
+
+def bolt_slab(rotor: Rotor) -> tuple[float, float]:
+    """(z0, z1) of the constant-thickness material the bolt holes pass through (mm).
+
+    Refused (:class:`ParamError`, keys ``bolt_circle.*``): fewer than 2 holes; holes closer
+    than the least wall w (:data:`gen.tolerances.LIMITS.min_wall`) to each other, to the bore
+    or to a lightening hole; a circle whose holes, widened by w, do not lie in one slab of
+    material (outside the hub or web, across a pocket or the rim's step).
+    """
+    from gen.tolerances import LIMITS
+
+    b = rotor.bolts
+    if b is None:
+        raise GeometryError("rotor has no bolt circle")
+    w = LIMITS.min_wall
+    if int(b.count) != b.count or b.count < 2:
+        raise ParamError("a bolt circle needs at least 2 holes", key="bolt_circle.count",
+                         value=b.count, allowed="≥ 2")
+    _positive(b.diameter, "bolt_circle.hole")
+    rc, rh = b.circle_radius, b.diameter / 2.0
+    gap = 2.0 * rc * math.sin(math.pi / b.count) - b.diameter
+    if gap < w:
+        raise ParamError(f"{b.count} holes of {b.diameter:g} mm on a {2 * rc:g} mm circle leave "
+                         f"{gap:.2f} mm between neighbours, less than the {w:g} mm wall",
+                         key="bolt_circle.count", value=b.count,
+                         allowed=f"≤ {int(math.pi / math.asin(min(1.0, (b.diameter + w) / (2 * rc))))}"
+                         if b.diameter + w < 2 * rc else "fewer or smaller holes")
+    if rc - rh - w < rotor.bore_radius:
+        raise ParamError(f"bolt holes of {b.diameter:g} mm on a {2 * rc:g} mm circle come within "
+                         f"{rc - rh - rotor.bore_radius:.2f} mm of the {rotor.bore:g} mm bore "
+                         f"(least wall {w:g} mm)", key="bolt_circle.diameter", value=2 * rc,
+                         allowed=f"≥ {2 * (rotor.bore_radius + rh + w):.2f} mm")
+    if rotor.holes is not None:
+        cb, ch = hole_centres(b), hole_centres(rotor.holes)
+        dist = np.hypot(*(cb[:, None, :] - ch[None, :, :]).transpose(2, 0, 1))
+        if float(dist.min()) - rh - rotor.holes.diameter / 2.0 < w:
+            raise ParamError("bolt holes run into the lightening holes (least wall "
+                             f"{w:g} mm)", key="bolt_circle.diameter", value=2 * rc)
+    slabs = _slabs_over(rotor, rc - rh - w, rc + rh + w)
+    if len(slabs) != 1 or None in slabs or rc + rh + w > rotor.outer_radius:
+        raise ParamError(f"bolt holes of {b.diameter:g} mm on a {2 * rc:g} mm circle must lie, "
+                         f"with {w:g} mm of wall, in material of one constant thickness (the "
+                         "hub, the disc or the web), clear of its edges, the pocket and the rim",
+                         key="bolt_circle.diameter", value=2 * rc)
+    return slabs.pop()
+
+
+def _remove_holes(h: Holes, slab, rho: float):
+    """(volume mm³, ∫ z dV, I_z kg·mm², I_x about the origin kg·mm²) of a hole circle through
+    ``slab`` = (z0, z1): each hole m_h = ρ π d_h²/4 t, I_z = m_h (R_c² + d_h²/8) (parallel
+    axis, standard); I_x summed over n equally spaced holes, n m_h (R_c²/2 + d_h²/16 + t²/12
+    + z_c²) — for n = 2 the mean of the two transverse axes."""
+    z0, z1 = slab
+    t, zc = z1 - z0, 0.5 * (z0 + z1)
+    vh = math.pi * h.diameter ** 2 / 4.0 * t
+    mh = rho * vh
+    n = h.count
+    return (n * vh, n * vh * zc, n * mh * (h.circle_radius ** 2 + h.diameter ** 2 / 8.0),
+            n * mh * (h.circle_radius ** 2 / 2.0 + h.diameter ** 2 / 16.0 + t * t / 12.0
+                      + zc * zc))
+
+
 def mass_properties(rotor: Rotor, density: float) -> MassProperties:
     """Mass, centre of mass and inertias of the rotor in a material of ``density`` (kg/m³).
 
     Solid of revolution (Pappus–Guldinus, integrated over the section A):
         V = 2π ∫∫ r dA,  z̄ = 2π ∫∫ r z dA / V,  I_z = ρ·2π ∫∫ r³ dA,
         I_x(origin) = ρ (π ∫∫ r³ dA + 2π ∫∫ r z² dA)    (∫ y² dV = π ∫∫ r³ dA by symmetry).
-    Each of n ≥ 3 lightening holes (diameter d_h, slab thickness t, slab mid-plane z_c, on
+    Each of n ≥ 3 lightening holes (and likewise each bolt hole, n ≥ 2) (diameter d_h, slab thickness t, slab mid-plane z_c, on
     radius R_c) removes m_h = ρ π d_h²/4 · t, I_z,h = m_h (R_c² + d_h²/8) (parallel axis) and,
     summed over the equally spaced holes, I_x,h = n m_h (R_c²/2 + d_h²/16 + t²/12 + z_c²).
     Finally I_transverse = I_x(origin) − m z̄² (parallel axis to the centre of mass).
@@ -336,18 +424,17 @@ def mass_properties(rotor: Rotor, density: float) -> MassProperties:
     m3 = section_moment(poly, 3, 0)
     iz = rho * 2.0 * math.pi * m3                        # kg·mm²
     ix = rho * (math.pi * m3 + 2.0 * math.pi * section_moment(poly, 1, 2))
+    sets = []
     if rotor.holes is not None:
-        h = rotor.holes
-        z0, z1 = hole_slab(rotor)
-        t, zc = z1 - z0, 0.5 * (z0 + z1)
-        vh = math.pi * h.diameter ** 2 / 4.0 * t
-        mh = rho * vh
-        n = h.count
-        vol -= n * vh
-        vz -= n * vh * zc
-        iz -= n * mh * (h.circle_radius ** 2 + h.diameter ** 2 / 8.0)
-        ix -= n * mh * (h.circle_radius ** 2 / 2.0 + h.diameter ** 2 / 16.0 + t * t / 12.0
-                        + zc * zc)
+        sets.append((rotor.holes, hole_slab(rotor)))
+    if rotor.bolts is not None:
+        sets.append((rotor.bolts, bolt_slab(rotor)))
+    for h, slab in sets:
+        dv, dvz, diz, dix = _remove_holes(h, slab, rho)
+        vol -= dv
+        vz -= dvz
+        iz -= diz
+        ix -= dix
     mass = rho * vol
     zbar = vz / vol
     return MassProperties(volume=vol, mass=mass, centroid_z=zbar, axial_inertia=iz * 1e-6,

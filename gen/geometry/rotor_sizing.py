@@ -32,13 +32,18 @@ class RimSizing:
 
 
 def max_rim_width(envelope: Rotor) -> float:
-    """Widest rim (mm) the envelope allows: inside the hub, pocket and holes' outer edge."""
+    """Widest rim (mm) the envelope allows: inside the hub, pocket, holes and bolt holes."""
     R = envelope.outer_radius
     inner = envelope.hub_diameter / 2.0
     if envelope.pocket is not None:
         inner = max(inner, envelope.pocket.diameter / 2.0)
     if envelope.holes is not None:
         inner = max(inner, envelope.holes.circle_radius + envelope.holes.diameter / 2.0)
+    if envelope.bolts is not None:  # bolt holes keep their wall (gen.geometry.rotor.bolt_slab)
+        from gen.tolerances import LIMITS
+
+        inner = max(inner, envelope.bolts.circle_radius + envelope.bolts.diameter / 2.0
+                    + LIMITS.min_wall)
     return max(R - inner, 0.0)
 
 

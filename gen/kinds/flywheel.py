@@ -10,7 +10,9 @@ Every number comes from the generated half-section (exact mass properties of the
 revolution, holes in closed form), and the build re-measures the exported triangles on slices
 (:func:`gen.validate.rotor_checks.slice_mass`) within the error the chord tolerance allows.
 Stress: Timoshenko's rotating-disc and thin-ring formulas (:mod:`gen.geometry.rotor_stress`);
-balance: ISO 21940-11 e_per = G/ω (from memory). Units in the manifest: mass kg, inertia
+balance: ISO 21940-11 e_per = G/ω (from memory). Holes (bolt circle, lightening holes) raise
+the stress at their edges: Kirsch's factor on the disc stress at their circle
+(:mod:`gen.geometry.rotor_holes`), part of the peak stress, safety factor and speed limit. Units in the manifest: mass kg, inertia
 kg·m², angular momentum N·m·s, energy J, stress MPa, speed rpm, unbalance g·mm, e_per µm,
 time s; lengths mm.
 """
@@ -20,10 +22,14 @@ from __future__ import annotations
 import dataclasses
 import math
 
+import numpy as np
+
 from gen.errors import GeometryError, ParamError
 from gen.findings import ERROR, INFO, WARNING, Finding
 from gen.geometry.body import HoleCircle, Revolved
-from gen.geometry.rotor import Holes, Pocket, Rotor, cell_grid, half_section, mass_properties
+from gen.geometry.rotor import (Holes, Pocket, Rotor, bolt_slab, cell_grid, half_section,
+                                mass_properties)
+from gen.geometry.rotor_holes import SOURCE as HOLE_SOURCE, hole_stress
 from gen.geometry.rotor_materials import rotor_material
 from gen.geometry.rotor_sizing import size_rim
 from gen.geometry.rotor_stress import (SOURCE as STRESS_SOURCE, permissible_unbalance,
@@ -48,6 +54,8 @@ FORMULAS = (
     Formula("spin_up_time", "t = I_z ω / T", "standard (constant torque, no friction)"),
     Formula("peak_stress", "σ = (3+ν)/8 ρω²R² (solid), (3+ν)/4 ρω²(R² + (1−ν)/(3+ν) a²) "
             "(bore), ρω²R² (thin rim)", STRESS_SOURCE + " (from memory)"),
+    Formula("hole_stress", "σ_hole = K σ_θ(R_c) = 3 σ_θ(R_c) − σ_r(R_c), K from 2 to 3",
+            HOLE_SOURCE),
     Formula("permissible_unbalance", "e_per = G/ω, U_per = m e_per", "ISO 21940-11 (from memory)"),
 )
 #: material words accepted (the rotor table's names and common aliases)
@@ -87,6 +95,13 @@ KEYS = (
         Key("circle", "float", REQUIRED, lo=0, hi=5000, lo_open=True, unit="mm",
             doc="diameter of the circle through the hole centres"),
     ), doc="lightening holes through the web (rim_web)"),
+    Key("bolt_circle", "map", None, sub=(
+        Key("diameter", "float", REQUIRED, lo=0, hi=5000, lo_open=True, unit="mm",
+            doc="diameter of the circle through the hole centres"),
+        Key("count", "int", REQUIRED, lo=2, hi=64),
+        Key("hole", "float", REQUIRED, lo=0, hi=500, lo_open=True, unit="mm",
+            doc="hole diameter (3.4: M3 clearance, ISO 273 medium, from memory)"),
+    ), doc="axial holes to bolt the rotor to a motor or hub, through the hub (or disc)"),
     Key("target", "map", None, sub=(
         Key("inertia", "float", None, lo=0, hi=1e6, lo_open=True, unit="kg·m²"),
         Key("angular_momentum", "float", None, lo=0, hi=1e6, lo_open=True, unit="N·m·s",
@@ -119,15 +134,17 @@ def _rotor(values, rim_width) -> Rotor:
     pocket = Pocket(v["pocket"]["diameter"], v["pocket"]["depth"]) if v["pocket"] else None
     holes = (Holes(v["holes"]["count"], v["holes"]["diameter"], v["holes"]["circle"] / 2.0)
              if v["holes"] else None)
+    bc = v.get("bolt_circle")
+    bolts = Holes(bc["count"], bc["hole"], bc["diameter"] / 2.0) if bc else None
     if v["layout"] == "disc":
         return Rotor(v["outer_diameter"], v["thickness"], bore=v["bore"], pocket=pocket,
-                     holes=holes)
+                     holes=holes, bolts=bolts)
     return Rotor(v["outer_diameter"], v["thickness"], bore=v["bore"], rim_width=rim_width,
                  web_thickness=v["web_thickness"], hub_diameter=v["hub_diameter"],
                  hub_length=(v["hub_length"] if v["hub_length"] is not None
                              else v["thickness"] - v["hub_offset"]),
                  hub_offset=v["hub_offset"],
-                 web_offset=v["web_offset"], pocket=pocket, holes=holes)
+                 web_offset=v["web_offset"], pocket=pocket, holes=holes, bolts=bolts)
 
 
 def _refuse(where, exc: ParamError):
@@ -225,8 +242,15 @@ def make(name, values, where):
 
     # stress, speed limit, balance, spin-up
     st = rotor_stress(rotor, mat, omega)
-    sf = mat.strength / st.peak
-    w_lim = speed_limit(rotor, mat)
+    at_holes = _hole_stresses(rotor, mat, omega)
+    peak, peak_at = st.peak, st.where
+    for what, hs in at_holes:
+        if hs.peak > peak:
+            peak, peak_at = hs.peak, what
+    sf = mat.strength / peak
+    # every stress here grows with ω² (Timoshenko; Kirsch is linear in the field)
+    w_lim = (speed_limit(rotor, mat) if not at_holes else
+             omega * math.sqrt(mat.strength / peak))
     n_lim = w_lim * 60.0 / (2.0 * math.pi)
     unb = permissible_unbalance(values["balance_grade"], omega, mp.mass)
     h = angular_momentum(mp.axial_inertia, omega)
@@ -237,24 +261,37 @@ def make(name, values, where):
     if sf < 1.0:
         findings.append(Finding(ERROR, "rotor-overspeed",
                                 f"max_speed {n_max:g} rpm is above the burst estimate: peak "
-                                f"stress {st.peak:.3g} MPa at the {st.where} exceeds {mat.name} "
+                                f"stress {peak:.3g} MPa at the {peak_at} exceeds {mat.name} "
                                 f"{strength}; the speed limit is {n_lim:.0f} rpm",
                                 name, STRESS_SOURCE, key="max_speed"))
     elif sf < values["min_safety_factor"]:
         findings.append(Finding(WARNING, "rotor-margin",
                                 f"safety factor {sf:.2f} at {n_max:g} rpm is below "
-                                f"{values['min_safety_factor']:g} (peak {st.peak:.3g} MPa at the "
-                                f"{st.where}, {mat.name} {strength}); at that factor the speed "
+                                f"{values['min_safety_factor']:g} (peak {peak:.3g} MPa at the "
+                                f"{peak_at}, {mat.name} {strength}); at that factor the speed "
                                 f"limit is {n_lim / math.sqrt(values['min_safety_factor']):.0f} "
                                 f"rpm", name, STRESS_SOURCE, key="max_speed"))
-    findings.append(Finding(INFO, "rotor-stress-method", st.method, name, STRESS_SOURCE,
+    method = st.method + ("; the holes' concentration is estimated in the notes on the holes "
+                          "and included in the peak" if at_holes else "")
+    findings.append(Finding(INFO, "rotor-stress-method", method, name, STRESS_SOURCE,
                             key="max_speed"))
+    for what, hs in at_holes:
+        findings.append(Finding(
+            INFO, "bolt-circle" if what == "bolt holes" else "rotor-stress-method",
+            f"{what} on a {2 * hs.circle_radius:g} mm circle raise the stress at their edges: "
+            f"disc stress there σ_θ {hs.sigma_theta:.3g} MPa, σ_r {hs.sigma_r:.3g} MPa, "
+            f"concentration factor {hs.factor:.2f} (3σ_θ − σ_r, between 2 and 3) → "
+            f"{hs.peak:.3g} MPa at {n_max:g} rpm, included in the peak stress and safety "
+            "factor (an estimate: small holes far apart)", name, HOLE_SOURCE,
+            key="bolt_circle" if what == "bolt holes" else "holes"))
     findings.append(Finding(INFO, "rotor-cautions", CAUTIONS.format(energy=energy), name,
                             "common practice", key="max_speed"))
 
     holes = ()
     if rotor.holes is not None:
         holes = (HoleCircle(rotor.holes.count, rotor.holes.diameter, rotor.holes.circle_radius),)
+    if rotor.bolts is not None:
+        holes += (HoleCircle(rotor.bolts.count, rotor.bolts.diameter, rotor.bolts.circle_radius),)
     shape = Revolved(profile, holes)
     sizes = {
         "outer_diameter": rotor.outer_diameter, "thickness": rotor.thickness,
@@ -264,20 +301,30 @@ def make(name, values, where):
         "mass": mp.mass, "volume": mp.volume, "centroid_z": mp.centroid_z,
         "inertia_axial": mp.axial_inertia, "inertia_transverse": mp.transverse_inertia,
         "angular_momentum": h, "kinetic_energy": energy,
-        "peak_stress": st.peak, "peak_stress_at": st.where, "strength": mat.strength,
+        "peak_stress": peak, "peak_stress_at": peak_at, "strength": mat.strength,
         "safety_factor": sf, "speed_limit": n_lim,
         "balance_grade": values["balance_grade"],
         "permissible_eccentricity": unb.specific * 1000.0,     # µm
         "permissible_unbalance": unb.unbalance,                # g·mm
         "spin_up_time": t_up, "motor_torque": values["motor_torque"],
     }
+    for what, hs in at_holes:
+        entry = {"circle_stress_theta": hs.sigma_theta, "circle_stress_r": hs.sigma_r,
+                 "stress_factor": hs.factor, "hole_stress": hs.peak}
+        if what == "bolt holes":
+            b = rotor.bolts
+            sizes["bolt_circle"] = {"diameter": 2 * b.circle_radius, "count": b.count,
+                                    "hole": b.diameter, **entry}
+        else:
+            sizes["lightening_hole_stress"] = entry
     # the build's own mass report reads values["material"]: give it this rotor's density
     values["material"] = Material(mat.name, mat.strength, mat.density / 1000.0,
                                   f"rotor material ({mat.strength_kind} stress)")
     chord = values["chord_tolerance"]
     return Part(name=name, kind=KIND, role=ROLE, values=values, shape=shape, sizes=sizes,
                 findings=tuple(findings), formulas=FORMULAS, outline=None, section=None,
-                slice_checks=(_mass_check(name, rotor, mp, mat.density, chord),),
+                slice_checks=(_mass_check(name, rotor, mp, mat.density, chord),)
+                + ((_bolt_check(name, rotor, chord),) if rotor.bolts is not None else ()),
                 chord_tol=chord,
                 data={"rotor": rotor, "mass_properties": mp, "stress": st, "material": mat,
                       "unbalance": unb, "profile": profile})
@@ -295,18 +342,74 @@ def mass_error_bound(rotor: Rotor, chord: float) -> dict:
     error of m z̄² = ρ (∫ z dV)²/V (at most three volume-like errors) to that of I_o.
     """
     ev, ej = polygon_error_bound(rotor.outer_radius, chord)
-    full = mass_properties(dataclasses.replace(rotor, holes=None), 1000.0)
+    full = mass_properties(dataclasses.replace(rotor, holes=None, bolts=None), 1000.0)
     net = mass_properties(rotor, 1000.0)
     dv, di = ev * full.volume, ej * full.axial_inertia
-    if rotor.holes is not None:
-        hv, hj = polygon_error_bound(rotor.holes.diameter / 2.0, chord)
-        dv += hv * (full.volume - net.volume)
-        di += max(hv, hj) * (full.axial_inertia - net.axial_inertia)
+    for h in (rotor.holes, rotor.bolts):
+        if h is None:
+            continue
+        hv, hj = polygon_error_bound(h.diameter / 2.0, chord)
+        one = mass_properties(dataclasses.replace(
+            rotor, holes=h if h is rotor.holes else None,
+            bolts=h if h is rotor.bolts else None), 1000.0)
+        dv += hv * (full.volume - one.volume)
+        di += max(hv, hj) * (full.axial_inertia - one.axial_inertia)
     rel_v, rel_i = dv / net.volume, di / net.axial_inertia
     mz2 = net.mass * net.centroid_z ** 2 * 1e-6                  # kg·m²
     rel_t = (max(rel_v, rel_i) * (net.transverse_inertia + mz2) + 3.0 * rel_v * mz2) / \
         net.transverse_inertia
     return {"volume": rel_v, "inertia_axial": rel_i, "inertia_transverse": rel_t}
+
+
+def _hole_stresses(rotor: Rotor, mat, omega: float) -> list:
+    """[(what, HoleStress)] for the bolt circle and the lightening holes (MPa)."""
+    out = []
+    if rotor.bolts is not None:
+        out.append(("bolt holes", hole_stress(rotor, mat, omega, rotor.bolts.circle_radius)))
+    if rotor.holes is not None:
+        out.append(("lightening holes", hole_stress(rotor, mat, omega,
+                                                    rotor.holes.circle_radius)))
+    return out
+
+
+def measure_bolts(loops, rotor: Rotor, tol: float) -> dict:
+    """Bolt holes found in one slice (closed loops, mm): loops whose area centroid lies on the
+    bolt circle and whose farthest corner gives the hole diameter, each within ``tol``."""
+    b = rotor.bolts
+    found = []
+    for p in loops:
+        p = np.asarray(p, dtype=float)[:, :2]
+        q = np.roll(p, -1, axis=0)
+        cr = p[:, 0] * q[:, 1] - q[:, 0] * p[:, 1]
+        area = 0.5 * float(np.sum(cr))
+        if area == 0.0:
+            continue
+        c = np.array([np.sum((p[:, 0] + q[:, 0]) * cr), np.sum((p[:, 1] + q[:, 1]) * cr)]) / (
+            6.0 * area)
+        d = 2.0 * float(np.max(np.hypot(*(p - c).T)))
+        if abs(float(np.hypot(*c)) - b.circle_radius) <= tol and abs(d - b.diameter) <= 2 * tol:
+            found.append((c, d))
+    radii = [float(np.hypot(*c)) for c, _ in found]
+    return {"count": len(found), "circle": 2.0 * float(np.mean(radii)) if radii else 0.0,
+            "holes": [d for _, d in found]}
+
+
+def _bolt_check(name, rotor, chord):
+    """A slice check: the bolt holes counted and their circle measured mid-slab."""
+    z0, z1 = bolt_slab(rotor)
+    tol = chord + TOL.slice_extra
+
+    def check(slicer):
+        got = measure_bolts(slicer(0.5 * (z0 + z1)), rotor, tol)
+        b = rotor.bolts
+        if got["count"] == b.count and abs(got["circle"] - 2 * b.circle_radius) <= tol:
+            return []
+        return [Finding(ERROR, "bolt-measure", f"triangles: {got['count']} bolt holes on a "
+                        f"{got['circle']:.3f} mm circle, expected {b.count} of {b.diameter:g} mm "
+                        f"on {2 * b.circle_radius:g} mm", name, "bolt circle layout",
+                        key="bolt_circle")]
+
+    return check
 
 
 def _mass_check(name, rotor, mp, density, chord):

@@ -10,7 +10,13 @@ A clearance that makes the nut's thread teeth come to a point is refused.
 Body: the barrel is a twisted prism (circle outside, the helicoidal hole inside, twist 2π/L);
 the flange is a straight prism round it with a plain hole wider than the thread root and the
 mounting holes on a bolt circle, so the two overlap in a ring and the union keeps the thread
-over the whole length. An anti-backlash split nut is not built (not done).
+over the whole length.
+
+Anti-backlash (``anti_backlash`` key): the same nut slit across the axis at mid-length,
+leaving a flexure bridge, with a preload screw parallel to the axis opposite the bridge
+(:mod:`gen.geometry.screw_split` says which design, why, and the take-up numbers). The
+barrel's default diameter grows to hold the screw hole; the slit, bridge and holes are
+re-measured on the exported triangles.
 """
 
 from __future__ import annotations
@@ -23,13 +29,16 @@ from gen.errors import GeometryError
 from gen.findings import ERROR, INFO, Finding
 from gen.geometry.body import Body, Prism
 from gen.geometry.screw import nut_section, nut_thread, screw_twist
+from gen.geometry.screw_split import PRELOAD_SCREWS, least_outer_radius
 from gen.geometry.section import Section, circle
 from gen.kinds import common_keys as K
 from gen.kinds.base import Formula, Part, Role
 from gen.kinds.lead_screw import lead_between
 from gen.kinds.thread_common import FORMULAS, THREAD_KEYS, sizes_of, thread_manifest
 from gen.params.schema import Key
-from gen.tolerances import TOL
+from gen.kinds.split_nut import (SPLIT_FORMULAS, make_split, split_note, split_sizes,
+                                  split_slice_check)
+from gen.tolerances import LIMITS, TOL
 from gen.validate import measure
 
 KIND = "screw_nut"
@@ -56,6 +65,18 @@ KEYS = THREAD_KEYS + (
         doc="mounting hole diameter (3.4: M3 clearance, ISO 273 medium, from memory)"),
     Key("bolt_circle", "float", None, lo=0, hi=2000, lo_open=True, unit="mm",
         doc="diameter of the circle through the hole centres (default: mid-flange)"),
+    Key("anti_backlash", "map", None, sub=(
+        Key("slit", "float", 1.0, lo=0, hi=10, lo_open=True, unit="mm",
+            doc="axial width of the cut across the nut, at mid-length"),
+        Key("bridge", "angle", 90.0, lo=0, hi=360, lo_open=True, hi_open=True, unit="deg",
+            doc="angular width of the uncut flexure bridge (on +X)"),
+        Key("preload_screw", "enum", "M3", choices=tuple(PRELOAD_SCREWS),
+            doc="screw parallel to the axis opposite the bridge: clearance hole above the "
+                "slit, pilot hole below"),
+        Key("screw_radius", "float", None, lo=0, hi=1000, lo_open=True, unit="mm",
+            doc="radius of the preload screw's axis (default: mid-wall)"),
+    ), doc="split the nut across the axis with a flexure bridge and a preload screw that "
+           "closes the slit and takes up the axial float"),
     K.FIT, K.CHORD,
 )
 
@@ -121,7 +142,11 @@ def make(name, values, where):
         raise where.error(ckey, str(exc), c) from None
     sizes, findings, _ = thread_manifest(s, values, where)
     r_root = nut.root_diameter / 2.0
+    ab = values.get("anti_backlash")
     od = values.get("outer_diameter") or max(1.6 * s.d, nut.root_diameter + 6.0)
+    if ab and not values.get("outer_diameter"):
+        screw = PRELOAD_SCREWS[ab["preload_screw"]]
+        od = max(od, 2.0 * least_outer_radius(r_root, screw, LIMITS.min_wall))
     R = od / 2.0
     if R - r_root < MIN_WALL:
         raise where.error("outer_diameter", f"a {od:g} mm barrel leaves "
@@ -161,7 +186,10 @@ def make(name, values, where):
         solids.append(Prism(Section(circle(fd / 2.0), tuple(loops)), 0.0, tf))
     elif holes:
         raise where.error("holes", "mounting holes need a flange (flange_diameter)", holes)
-    body = Body(tuple(solids))
+    split, cuts = None, ()
+    if ab:
+        split, cuts = make_split(values, ab, nut, r_root, R, tf if fd else 0.0, length, where)
+    body = Body(tuple(solids), cuts=cuts)
     poly = hole.polygon(chord)
     findings += hole_findings(name, measure_hole(poly, nut), nut, chord + TOL.size, "section")
     engaged = length / s.pitch
@@ -177,6 +205,9 @@ def make(name, values, where):
                  max_clearance=nut.max_clearance, outer_diameter=od,
                  flange_diameter=fd or None, flange_thickness=tf if fd else None,
                  bolt_circle=bc, holes=holes if fd else 0)
+    if split is not None:
+        sizes["anti_backlash"] = split_sizes(split)
+        findings.append(split_note(name, split))
     sign = 1.0 if values["hand"] == "right" else -1.0
 
     def slice_check(slicer):
@@ -200,8 +231,12 @@ def make(name, values, where):
                                    name, "L = n P"))
         return out
 
+    checks = (slice_check,)
+    if split is not None:
+        checks += (split_slice_check(name, split, length, chord),)
     return Part(name=name, kind=KIND, role=ROLE, values=values, shape=body, sizes=sizes,
-                findings=tuple(findings), formulas=NUT_FORMULAS, outline=poly,
-                section=solids[0].section,
-                slice_checks=(slice_check,), chord_tol=chord,
-                data={"thread": s, "nut": nut, "twist": twist})
+                findings=tuple(findings),
+                formulas=NUT_FORMULAS + (SPLIT_FORMULAS if split is not None else ()),
+                outline=poly, section=solids[0].section,
+                slice_checks=checks, chord_tol=chord,
+                data={"thread": s, "nut": nut, "twist": twist, "split": split})
