@@ -42,31 +42,51 @@ def assembly_step(asm, models, path: str, out: str | None = None) -> int:
     return write_step_assembly(assembly_items(asm, models, out), path, asm.name)
 
 
-def export_assemblies(result, out, formats, report, prev) -> None:
-    if "step" not in formats:
-        return
+def _phash(asm) -> str:
+    return hashlib.sha256(json.dumps({"values": asm.values, "v": __version__},
+                                     sort_keys=True, default=str).encode()).hexdigest()
+
+
+def export_assembly(asm, models, out) -> PartOutcome:
+    """Write one assembly's STEP; failures become an error finding of the outcome."""
     from gen.export.step import write_step_assembly
 
+    path = os.path.join(out, asm.name + ".step")
+    t0 = time.perf_counter()
+    oc = PartOutcome(f"assembly:{asm.name}", True)
+    try:
+        size = write_step_assembly(assembly_items(asm, models, out), path, asm.name)
+        oc.files["step"] = file_info(path, size)
+    except Exception as exc:  # reported, never a traceback
+        oc.ok, oc.status = False, "failed"
+        oc.findings.append(Finding(ERROR, "export", f"assembly STEP: {exc}", asm.name,
+                                   "", scope="assembly"))
+    oc.seconds = time.perf_counter() - t0
+    oc.params_hash = _phash(asm)
+    return oc
+
+
+def export_assemblies(result, out, formats, report, prev, run_many=None) -> None:
+    """Every assembly's STEP, unless it and its parts are up to date. ``run_many(names)``
+    exports the named assemblies elsewhere (worker processes) and yields their outcomes;
+    default: here, one after the other."""
+    if "step" not in formats:
+        return
+    todo = []
     for asm in result.assemblies:
         parts = [report.outcomes.get(p) for p in asm.poses]
-        path = os.path.join(out, asm.name + ".step")
         key = f"assembly:{asm.name}"
-        phash = hashlib.sha256(json.dumps({"values": asm.values, "v": __version__},
-                                          sort_keys=True, default=str).encode()).hexdigest()
+        phash = _phash(asm)
         if all(p is not None and p.status == "up_to_date" for p in parts) and \
                 up_to_date(prev.get(key, {}), phash, out):
             oc = PartOutcome(key, True, "up_to_date", prev[key]["files"])
+            oc.params_hash = phash
+            report.outcomes[key] = oc
         else:
-            t0 = time.perf_counter()
-            oc = PartOutcome(key, True)
-            try:
-                size = write_step_assembly(assembly_items(asm, result.models, out), path,
-                                           asm.name)
-                oc.files["step"] = file_info(path, size)
-            except Exception as exc:  # reported, never a traceback
-                oc.ok, oc.status = False, "failed"
-                oc.findings.append(Finding(ERROR, "export", f"assembly STEP: {exc}", asm.name,
-                                           "", scope="assembly"))
-            oc.seconds = time.perf_counter() - t0
-        oc.params_hash = phash
-        report.outcomes[key] = oc
+            todo.append(asm)
+    if run_many is not None and len(todo) > 1:
+        for oc in run_many([a.name for a in todo]):
+            report.outcomes[oc.name] = oc
+        return
+    for asm in todo:
+        report.outcomes[f"assembly:{asm.name}"] = export_assembly(asm, result.models, out)

@@ -33,6 +33,7 @@ class Made:
         self.notes = []        # findings the writers report (e.g. shape-analysis warnings)
         self.analysis = {}     # format -> what the writer's check measured
         self._solid = None
+        self.volume = None     # the solid's volume (mm³), measured with it
 
     def solid(self):
         if self._solid is None:
@@ -45,7 +46,7 @@ class Made:
                 raise PitchlineError(f"solid volume {vol:.3f} mm³ and triangle volume "
                                      f"{tri:.3f} mm³ disagree by more than "
                                      f"{100 * VOLUME_REL:g} %")
-            self._solid = s
+            self._solid, self.volume = s, vol
         return self._solid
 
 

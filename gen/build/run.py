@@ -43,6 +43,13 @@ def _work(names) -> list:
     return _export_group(_JOB["models"], names, _JOB["out"], _JOB["formats"], _JOB["options"])
 
 
+def _assembly_work(name: str):
+    from gen.build.assembly import export_assembly
+
+    asm = next(a for a in _JOB["assemblies"] if a.name == name)
+    return export_assembly(asm, _JOB["models"], _JOB["out"])
+
+
 def _export_group(models, names, out, formats, options=None) -> list:
     """Export parts of identical geometry: triangles and solid made once, files per name."""
     if len(names) == 1:
@@ -133,6 +140,7 @@ def build(result, out: str, formats, *, force: bool = False, jobs: int = 1,
         names = [n for group in jobs_list for n in group]
         for oc in export_on_dask(result, names, out, formats, scheduler, progress, options):
             report.outcomes[oc.name] = oc
+        export_assemblies(result, out, formats, report, prev)
     elif jobs > 1 and len(jobs_list) > 1:
         import multiprocessing as mp
 
@@ -141,20 +149,23 @@ def build(result, out: str, formats, *, force: bool = False, jobs: int = 1,
 
             preload()  # load the kernel once; the forked workers share it
 
-        _JOB.update(models=models, out=out, formats=tuple(formats), options=options)
+        _JOB.update(models=models, out=out, formats=tuple(formats), options=options,
+                    assemblies=tuple(result.assemblies))
         ctx = mp.get_context("fork")
         with ctx.Pool(min(jobs, len(jobs_list))) as pool:
             for ocs in pool.imap_unordered(_work, jobs_list):
                 for oc in ocs:
                     report.outcomes[oc.name] = oc
                     progress.step(oc)
+            export_assemblies(result, out, formats, report, prev,
+                              run_many=lambda names: pool.imap_unordered(_assembly_work, names))
         _JOB.clear()
     else:
         for names in jobs_list:
             for oc in _export_group(models, names, out, tuple(formats), options):
                 report.outcomes[oc.name] = oc
                 progress.step(oc)
-    export_assemblies(result, out, formats, report, prev)
+        export_assemblies(result, out, formats, report, prev)
     for name, oc in report.outcomes.items():
         if not oc.ok:
             _keep_earlier(oc, earlier.get(name, {}), out, formats)

@@ -17,8 +17,9 @@ def register(sub):
     p.add_argument("--out", default="out", metavar="DIR", help="output folder (default: out)")
     p.add_argument("--format", default="step,stl", metavar="LIST",
                    help="comma-separated formats (default: step,stl)")
-    p.add_argument("--jobs", type=int, default=1, metavar="N",
-                   help="export parts in N parallel processes (default: 1)")
+    p.add_argument("--jobs", type=int, default=None, metavar="N",
+                   help="export parts in N parallel processes (default: one per CPU this "
+                        "process may use)")
     p.add_argument("--force", action="store_true", help="rebuild parts that are up to date")
     p.add_argument("--executor", default="local", choices=("local", "dask"),
                    help="where parts are exported: this machine (default) or a Dask cluster")
@@ -41,12 +42,22 @@ def parse_formats(text: str):
     return parse(text)
 
 
+def default_jobs() -> int:
+    """CPUs this process may use (its affinity mask), at least 1."""
+    try:
+        return max(1, len(os.sched_getaffinity(0)))
+    except AttributeError:   # not on Linux
+        return max(1, os.cpu_count() or 1)
+
+
 def run(args) -> int:
     from gen.build import Progress, build
     from gen.api import check_files
 
     try:
         formats = parse_formats(args.format)
+        if args.jobs is None:
+            args.jobs = default_jobs()
         if args.jobs < 1:
             raise ValueError("--jobs takes a whole number ≥ 1")
         try:

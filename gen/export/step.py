@@ -1,5 +1,6 @@
-"""STEP (ISO 10303-21, AP214) export with deterministic bytes, every solid analysed first
-and every file re-read before it replaces an earlier one.
+"""STEP (ISO 10303-21, AP214) export with deterministic bytes; every file is re-read and
+analysed before it replaces an earlier one (the solid in memory has its tolerances checked
+first: a file does not carry them).
 
 Shape analysis (:func:`analyse_shape`), with the CAD kernel's own tools:
 
@@ -184,6 +185,10 @@ def analyse_shape(shape, slack: float = 0.0) -> ShapeReport:
 
 
 def _same_frame(a, b) -> bool:
+    from OCP.gp import gp_TrsfForm
+
+    if a.Form() == gp_TrsfForm.gp_Identity and b.Form() == gp_TrsfForm.gp_Identity:
+        return True
     return all(abs(a.Value(i, j) - b.Value(i, j)) < 1e-12 for i in (1, 2, 3) for j in (1, 2, 3, 4))
 
 
@@ -252,12 +257,16 @@ STEP_VOLUME_REL = 1e-4
 STEP_PCURVE_SLACK = 1e-6
 
 
-def step_verifier(what: str, solids: int, volume: float, rel: float = STEP_VOLUME_REL):
+def step_verifier(what: str, solids: int, volume: float, rel: float = STEP_VOLUME_REL,
+                  sink: list | None = None):
     """A ``verify(path)`` for :func:`write_atomic`: the STEP as written re-reads as ``solids``
-    solids passing the shape analysis, of total volume ``volume`` within ``rel``."""
+    solids passing the shape analysis, of total volume ``volume`` within ``rel``; the
+    analysis is appended to ``sink``."""
     def verify(path: str) -> None:
         shape = read_step_shape(path)
         report = analyse_shape(shape, STEP_PCURVE_SLACK)
+        if sink is not None:
+            sink.append(report)
         errors = report.errors()
         if report.solids == solids and errors == [f"{solids} solids, expected one"]:
             errors = []          # an assembly holds several solids by design
@@ -304,12 +313,45 @@ def write_step_assembly(items, path: str, name: str) -> int:
     return len(data)
 
 
-def write_step(shape, path: str, name: str, report: ShapeReport | None = None) -> int:
-    """Write one solid as STEP after the full shape analysis; the file is re-read and analysed
-    again before it replaces ``path``."""
-    report = report or checked(shape, name)
+def tolerance_check(shape, what: str) -> None:
+    """Before export: one solid, and no edge or vertex tolerance above ``TOL.edge_tolerance``
+    (a STEP file does not carry loose tolerances, so only the solid in memory shows them).
+    The full analysis runs on the file as re-read."""
+    from OCP.BRep import BRep_Tool
+    from OCP.TopAbs import TopAbs_EDGE, TopAbs_SOLID, TopAbs_VERTEX
+    from OCP.TopExp import TopExp_Explorer
+    from OCP.TopoDS import TopoDS
+
+    def scan(kind, cast):
+        worst, n, ex = 0.0, 0, TopExp_Explorer(shape, kind)
+        while ex.More():
+            worst = max(worst, BRep_Tool.Tolerance_s(cast(ex.Current())) if cast else 0.0)
+            n += 1
+            ex.Next()
+        return worst, n
+
+    _, solids = scan(TopAbs_SOLID, None)
+    worst = max(scan(TopAbs_EDGE, TopoDS.Edge_s)[0], scan(TopAbs_VERTEX, TopoDS.Vertex_s)[0])
+    errors = []
+    if solids != 1:
+        errors.append(f"{solids} solids, expected one")
+    if worst > TOL.edge_tolerance:
+        errors.append(f"edge/vertex tolerance {worst:.3g} mm exceeds {TOL.edge_tolerance:g} mm")
+    if errors:
+        raise ExportError(f"{what}: shape analysis refuses the solid: " + "; ".join(errors))
+
+
+def write_step(shape, path: str, name: str, volume: float | None = None,
+               reports: list | None = None) -> int:
+    """Write one solid as STEP; the file is re-read and fully analysed (its
+    :class:`ShapeReport` appended to ``reports``) before it replaces ``path``. ``volume``:
+    the solid's volume if already measured (mm³)."""
+    wrapped = getattr(shape, "wrapped", shape)
+    tolerance_check(wrapped, name)
+    if volume is None:
+        volume = shape_volume(wrapped)
     data = step_bytes(shape, name, os.path.dirname(os.path.abspath(path)))
-    write_atomic(path, data, step_verifier(name, 1, report.volume))
+    write_atomic(path, data, step_verifier(name, 1, volume, sink=reports))
     return len(data)
 
 
@@ -320,15 +362,50 @@ def read_step(path: str):
     return cq.importers.importStep(path).val()
 
 
+#: the last STEP that passed the re-read: (solid, part name, bytes, analysis); a part of the
+#: same solid under another name (identical planets) gets those bytes renamed
+_LAST_VERIFIED: list = []
+
+
+def renamed(data: bytes, old: str, new: str) -> bytes:
+    """STEP bytes of a single-part file with its file and product name ``old`` → ``new``."""
+    o, n = old.encode(), new.encode()
+    head = b"FILE_NAME('" + o + b"',"
+    prod = b"PRODUCT('" + o + b"','" + o + b"'"
+    if data.count(head) != 1 or data.count(prod) != 1:
+        raise ExportError(f"cannot rename the STEP of {old}: its names are not where expected")
+    return (data.replace(head, b"FILE_NAME('" + n + b"',", 1)
+            .replace(prod, b"PRODUCT('" + n + b"','" + n + b"'", 1))
+
+
 def write_part(part, path: str, made) -> int:
-    """The part's solid (checked against its triangles' volume, then fully analysed) as STEP;
-    analysis warnings (C0 continuity) go to ``made.notes``."""
+    """The part's solid (checked against its triangles' volume) as STEP, fully analysed as
+    re-read from the file; analysis warnings (C0 continuity) go to ``made.notes``.
+
+    A solid just written under another name is not written and analysed again: its verified
+    bytes are renamed, and the new file is read back and compared byte for byte."""
     from gen.findings import WARNING, Finding
 
     shape = made.solid()
-    report = checked(shape, part.name)
+    last = _LAST_VERIFIED[0] if _LAST_VERIFIED else None
+    if last is not None and last[0] is shape and last[1] != part.name:
+        data = renamed(last[2], last[1], part.name)
+
+        def same_bytes(p: str) -> None:
+            with open(p, "rb") as fh:
+                if fh.read() != data:
+                    raise ExportError(f"{part.name}: the STEP as written differs from the "
+                                      "verified bytes")
+        write_atomic(path, data, same_bytes)
+        size, report = len(data), last[3]
+    else:
+        reports = []
+        size = write_step(shape, path, part.name, made.volume, reports)
+        report = reports[-1]
+        with open(path, "rb") as fh:
+            _LAST_VERIFIED[:] = [(shape, part.name, fh.read(), report)]
     made.analysis["step"] = report
     for text in report.warnings():
         made.notes.append(Finding(WARNING, "shape-analysis", f"STEP solid: {text}", part.name,
                                   "OCCT ShapeAnalysis_ShapeContents", scope="part"))
-    return write_step(shape, path, part.name, report)
+    return size

@@ -16,8 +16,8 @@ A rim + web rotor is ESTIMATED as the larger of (i) the thin-ring stress at the 
 ρω²R² — never less than the bore hoop stress of a free rim of any width, since
 ((3+ν)b² + (1−ν)a²)/4 ≤ b² — and (ii) the bore hoop stress of a constant-thickness disc of the
 full outer radius (the web and hub as if they continued to the rim). The pull of a heavy rim on
-a thin web, the stress raised around lightening holes (roughly two to three times the local
-stress) and printed-layer weaknesses are not modelled; treat the figures as estimates.
+a thin web and printed-layer weaknesses are not modelled; treat the figures as estimates. The
+stress raised around bolt and lightening holes is added by :mod:`gen.geometry.rotor_holes`.
 
 ISO 21940-11 balance quality (from memory): permissible residual specific unbalance
 e_per = G/ω (G the grade in mm/s, ω in rad/s → mm); permissible residual unbalance
@@ -123,7 +123,7 @@ def rotor_stress(rotor: Rotor, mat: str | RotorMaterial, omega: float) -> RotorS
     return RotorStress(omega, peak, at, ring, disc,
                        "estimate: larger of thin-ring stress at the outer radius (rim) and "
                        f"constant-thickness disc stress at the {'bore' if a > 0 else 'centre'} "
-                       f"(web); rim–web interaction and hole concentration not modelled ({SOURCE})")
+                       f"(web); rim–web interaction not modelled ({SOURCE})")
 
 
 def speed_limit(rotor: Rotor, mat: str | RotorMaterial, safety_factor: float = 1.0) -> float:
