@@ -309,9 +309,20 @@ def test_rotor_drawing_has_section_curves_peak_and_allowable():
     assert "radius r (mm)" in labels and "stress σ (MPa)" in labels
     peak = _cls(root, "peak", "g")[0]
     slope, icpt = _tick_map(root)
-    cy = float(peak.find(SVG + "circle").get("cy"))
-    # 2.789 MPa (computed above) read back through the tick scale
-    assert (cy - icpt) / slope == pytest.approx(2.789, abs=0.01)
+
+    def mpa(g):
+        return (float(g.find(SVG + "circle").get("cy")) - icpt) / slope
+    # the rim: 2.789 MPa (computed above) read back through the tick scale
+    assert any(mpa(g) == pytest.approx(2.789, abs=0.01) for g in _cls(root, "stress-mark", "g"))
+    # the peak at the 14 mm bolt circle: Timoshenko's bored disc (a 4, b 60 mm, ν 0.3, from
+    # memory) at r 7 mm, raised by Kirsch's 3σ_θ − σ_r at a small hole (Timoshenko & Goodier,
+    # from memory); computed here by hand
+    w = 3000 * 2 * np.pi / 60
+    k, a, b, r, nu = 7850 * w * w / 1e6 * 1e-6, 4.0, 60.0, 7.0, 0.3   # ρω² in MPa/mm²
+    s_r = (3 + nu) / 8 * k * (b * b + a * a - a * a * b * b / r ** 2 - r * r)
+    s_t = (3 + nu) / 8 * k * (b * b + a * a + a * a * b * b / r ** 2 - (1 + 3 * nu) / (3 + nu) * r * r)
+    assert mpa(peak) == pytest.approx(3 * s_t - s_r, abs=0.01)
+    assert "bolt holes" in "".join(peak.itertext())
     # at 3000 rpm the yield (235 MPa) is far above the curves: written, not drawn
     assert "above the scale" in _cls(root, "allowable", "text")[0].text
     # at 18000 rpm (36× the stress: 100 MPa) the yield line is drawn at 235 MPa on the scale

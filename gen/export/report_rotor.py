@@ -49,6 +49,7 @@ def rotor_svg(part, title: str = "") -> str:
     rpm = float(part.sizes["max_speed"])
     omega = rpm * 2.0 * math.pi / 60.0
     curve = stress_curve(rotor, mat, omega)
+    holes = _hole_marks(rotor, mat, omega)
     prof = np.asarray(part.shape.profile, float)
     uid = "f" + hashlib.sha1((title + part.name).encode()).hexdigest()[:8]
     fill, line = MEMBER_STYLES[0]
@@ -64,7 +65,7 @@ def rotor_svg(part, title: str = "") -> str:
            f'<rect width="{W}" height="{H}" fill="#ffffff"/>',
            f'<text x="8" y="22" font-size="14">{escape(title or part.name)}</text>']
     out += _section(prof, rotor, uid, line)
-    out += _plot(curve, rpm, mat)
+    out += _plot(curve, rpm, mat, holes)
     out.append("</svg>")
     return "\n".join(out) + "\n"
 
@@ -87,8 +88,10 @@ def _section(prof, rotor, uid, line):
     out.append(f'<line class="axis" x1="{_n(ox)}" y1="{_n(oy - s * zhi - 12)}" x2="{_n(ox)}" '
                f'y2="{_n(oy - s * zlo + 12)}" stroke="#000" stroke-width="0.8" '
                'stroke-dasharray="14 3 2 3"/>')
-    if rotor.holes is not None:
-        rc = rotor.holes.circle_radius
+    for circle in (rotor.holes, getattr(rotor, "bolts", None)):
+        if circle is None:
+            continue
+        rc = circle.circle_radius
         for sign in (1.0, -1.0):
             xx = ox + sign * s * rc
             out.append(f'<line class="hole-circle" x1="{_n(xx)}" y1="{_n(oy - s * zhi - 6)}" '
@@ -97,21 +100,38 @@ def _section(prof, rotor, uid, line):
     yb = oy - s * zlo + 24
     out.append(f'<text x="{_n(ox)}" y="{_n(yb)}" text-anchor="middle">Ø{2 * R:g} mm, '
                f'{zhi - zlo:g} mm thick; section through the axis</text>')
-    if rotor.holes is not None:
-        out.append(f'<text x="{_n(ox)}" y="{_n(yb + 15)}" text-anchor="middle" fill="#555">'
-                   f'{rotor.holes.count} holes Ø{rotor.holes.diameter:g} on '
-                   f'Ø{2 * rotor.holes.circle_radius:g} (centre lines; not in this cut)</text>')
+    notes = [f"{c.count} {what} Ø{c.diameter:g} on Ø{2 * c.circle_radius:g}"
+             for what, c in (("holes", rotor.holes), ("bolt holes", getattr(rotor, "bolts", None)))
+             if c is not None]
+    for k, note in enumerate(notes):
+        out.append(f'<text x="{x + 4}" y="{_n(yb + 15 * (k + 1))}" font-size="11" '
+                   f'fill="#555">{note}{" (centre lines; not in this cut)" if k == len(notes) - 1 else ""}'
+                   '</text>')
     out.append("</g>")
     return out
 
 
-def _plot(curve, rpm, mat):
+def _hole_marks(rotor, mat, omega) -> list:
+    """[(label, HoleStress)] for the rotor's bolt and lightening hole circles: Kirsch's
+    concentration on the disc stress there (:mod:`gen.geometry.rotor_holes`), the same
+    figures the part's peak stress and safety factor include."""
+    from gen.geometry.rotor_holes import hole_stress
+
+    out = []
+    for label, circle in (("bolt holes", getattr(rotor, "bolts", None)),
+                          ("lightening holes", rotor.holes)):
+        if circle is not None:
+            out.append((label, hole_stress(rotor, mat, omega, circle.circle_radius)))
+    return out
+
+
+def _plot(curve, rpm, mat, holes=()):
     x, y, w, h = _PLOT
     R = float(curve.r[-1])
     seen = [curve.radial, curve.hoop] + ([curve.ring_hoop] if curve.ring_hoop is not None
                                           else [])
     top = max(float(np.max(v)) for v in seen)
-    top = max(top, curve.peak.peak)
+    top = max([top, curve.peak.peak] + [hs.peak for _, hs in holes])
     on_scale = curve.allowable <= ALLOWABLE_ON_SCALE * top
     ymax = 1.1 * (max(top, curve.allowable) if on_scale else top)
     xt, yt = _ticks(R), _ticks(ymax)
@@ -161,12 +181,25 @@ def _plot(curve, rpm, mat):
     else:
         out.append(f'<text class="allowable" x="{x + w - 4}" y="{y + 14}" text-anchor="end">'
                    f'{kind} {curve.allowable:g} MPa: above the scale, ×'
-                   f'{curve.allowable / curve.peak.peak:.1f} the peak</text>')
-    pr, pv = curve.peak_radius, curve.peak.peak
-    out.append(f'<g class="peak"><circle cx="{_n(X(pr))}" cy="{_n(Y(pv))}" r="5" fill="none" '
-               f'stroke="{WARN}" stroke-width="2"/><text x="{_n(min(X(pr) + 8, x + w - 150))}" '
-               f'y="{_n(max(Y(pv) - 8, y + 30))}" fill="{WARN}" font-weight="bold">peak '
-               f'{pv:.3g} MPa at the {escape(curve.peak.where)}</text></g>')
+                   f'{curve.allowable / top:.1f} the peak</text>')
+    marks = [(curve.peak_radius, curve.peak.peak, f"the {curve.peak.where}", None)]
+    marks += [(hs.circle_radius, hs.peak, label, hs) for label, hs in holes]
+    worst = max(range(len(marks)), key=lambda i: marks[i][1])
+    for i, (pr, pv, where, hs) in enumerate(marks):
+        if hs is not None:   # from the disc stress at the hole circle to its raised value
+            base = max(hs.sigma_theta, hs.sigma_r)
+            out.append(f'<line class="hole-factor" x1="{_n(X(pr))}" y1="{_n(Y(base))}" '
+                       f'x2="{_n(X(pr))}" y2="{_n(Y(pv))}" stroke="{WARN}" stroke-width="1" '
+                       'stroke-dasharray="3 2"/>')
+        peak = i == worst
+        label = (("peak " if peak else "") + f"{pv:.3g} MPa at {escape(where)}"
+                 + (f" (×{hs.factor:.2f}, Kirsch)" if hs is not None else ""))
+        weight = ' font-weight="bold"' if peak else ""
+        out.append(f'<g class="{"peak" if peak else "stress-mark"}"><circle cx="{_n(X(pr))}" '
+                   f'cy="{_n(Y(pv))}" r="{5 if peak else 4}" fill="none" stroke="{WARN}" '
+                   f'stroke-width="{2 if peak else 1.2}"/><text '
+                   f'x="{_n(min(X(pr) + 8, x + w - 210))}" y="{_n(max(Y(pv) - 8, y + 30 + 14 * i))}" '
+                   f'fill="{WARN}"{weight}>{label}</text></g>')
     # key
     ky = y + h + 50
     items = [(hoop_c, "", "hoop σθ (disc)"), (rad_c, "7 4", "radial σr (disc)")]
@@ -181,6 +214,7 @@ def _plot(curve, rpm, mat):
         kx += 36 + 7 * len(text)
     out.append(f'<text x="12" y="{ky + 17}" fill="#444">at {rpm:g} rpm '
                f'({rpm * 2 * math.pi / 60:.1f} rad/s), {escape(str(mat.name))}; '
-               f'Timoshenko rotating disc</text>')
+               f'Timoshenko rotating disc' + ("; hole edges: Kirsch's factor 3σ₁ − σ₂ on the "
+                                              "disc stress there" if holes else "") + '</text>')
     out.append("</g>")
     return out

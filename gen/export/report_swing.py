@@ -221,7 +221,7 @@ def swing_svg(pl: SwingPlacement, pair, stops=None, stops2=None, title: str = ""
         fill = WARN if text.startswith(("overlap", "hard")) else "#1d1f22"
         out.append(f'<text class="{cls}" x="10" y="{y + 17 * k}" fill="{fill}">'
                    f'{escape(text)}</text>')
-    out.append(f'<text x="{W - 8}" y="22" text-anchor="end" fill="#444">dash-dot-dot: '
-               "swing ends; red ticks: hard stops</text>")
+    out.append('<text x="8" y="38" font-size="11" fill="#444">dash-dot-dot: swing ends; '
+               "red ticks: hard stops</text>")
     out.append("</svg>")
     return "\n".join(out) + "\n"
