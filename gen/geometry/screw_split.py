@@ -166,22 +166,20 @@ def split_nut(*, axial_play: float, root_radius: float, outer_radius: float, sli
     key_rs = "outer_diameter" if screw_radius is None else "anti_backlash.screw_radius"
     rs = screw_radius_default(r4, R) if screw_radius is None else float(screw_radius)
     rh = screw.clearance / 2.0
+    def refuse(what: str, left: float, where: str, bound: str):
+        raise ParamError(f"the {screw.name} preload hole ({screw.clearance:g} mm) on radius "
+                         f"{rs:.2f} mm breaks {what}: {left:.2f} mm of wall {where}, at least "
+                         f"{wall:g} mm needed", key=key_rs,
+                         value=2 * R if screw_radius is None else rs,
+                         allowed=(f"outer_diameter ≥ {2 * least_outer_radius(r4, screw, wall):.2f}"
+                                  " mm" if screw_radius is None else bound))
+
     if rs - rh - r4 < wall:
-        raise ParamError(f"the {screw.name} preload hole ({screw.clearance:g} mm) on radius "
-                         f"{rs:.2f} mm breaks into the thread: {rs - rh - r4:.2f} mm of wall "
-                         f"over the thread root ({2 * r4:.3f} mm), at least {wall:g} mm needed",
-                         key=key_rs, value=2 * R if screw_radius is None else rs,
-                         allowed=(f"outer_diameter ≥ {2 * least_outer_radius(r4, screw, wall):.2f}"
-                                  " mm" if screw_radius is None else
-                                  f"screw_radius ≥ {r4 + wall + rh:.2f} mm"))
+        refuse("into the thread", rs - rh - r4,
+               f"over the thread root ({2 * r4:.3f} mm)", f"screw_radius ≥ {r4 + wall + rh:.2f} mm")
     if rs + rh > R - wall:
-        raise ParamError(f"the {screw.name} preload hole ({screw.clearance:g} mm) on radius "
-                         f"{rs:.2f} mm breaks out of the body: {R - rs - rh:.2f} mm of wall "
-                         f"inside the barrel ({2 * R:g} mm), at least {wall:g} mm needed",
-                         key=key_rs, value=2 * R if screw_radius is None else rs,
-                         allowed=(f"outer_diameter ≥ {2 * least_outer_radius(r4, screw, wall):.2f}"
-                                  " mm" if screw_radius is None else
-                                  f"screw_radius ≤ {R - wall - rh:.2f} mm"))
+        refuse("out of the body", R - rs - rh, f"inside the barrel ({2 * R:g} mm)",
+               f"screw_radius ≤ {R - wall - rh:.2f} mm")
     # the hole (and a wall round it) must lie in the cut, clear of the bridge
     reach = math.asin(min(1.0, (rh + wall) / rs))
     if bridge / 2.0 > math.pi - reach:

@@ -133,6 +133,19 @@ def signed_area(poly: np.ndarray) -> float:
     return 0.5 * float(np.dot(x, np.roll(y, -1)) - np.dot(y, np.roll(x, -1)))
 
 
+def area_centroid(poly) -> tuple[float, np.ndarray | None]:
+    """Signed area (mm²) and area centroid (mm) of a closed polygon (n, ≥2) by the shoelace
+    formula; centroid None for a zero area."""
+    p = np.asarray(poly, dtype=float)[:, :2]
+    q = np.roll(p, -1, axis=0)
+    cr = p[:, 0] * q[:, 1] - q[:, 0] * p[:, 1]
+    area = 0.5 * float(np.sum(cr))
+    if area == 0.0:
+        return 0.0, None
+    return area, np.array([np.sum((p[:, 0] + q[:, 0]) * cr),
+                           np.sum((p[:, 1] + q[:, 1]) * cr)]) / (6.0 * area)
+
+
 def rotate(points: np.ndarray, angle: float) -> np.ndarray:
     c, s = math.cos(angle), math.sin(angle)
     return points @ np.array([[c, s], [-s, c]])

@@ -27,6 +27,7 @@ import numpy as np
 from gen.errors import GeometryError, ParamError
 from gen.findings import ERROR, INFO, WARNING, Finding
 from gen.geometry.body import HoleCircle, Revolved
+from gen.geometry.section import area_centroid
 from gen.geometry.rotor import (Holes, Pocket, Rotor, bolt_slab, cell_grid, half_section,
                                 mass_properties)
 from gen.geometry.rotor_holes import SOURCE as HOLE_SOURCE, hole_stress
@@ -379,13 +380,9 @@ def measure_bolts(loops, rotor: Rotor, tol: float) -> dict:
     found = []
     for p in loops:
         p = np.asarray(p, dtype=float)[:, :2]
-        q = np.roll(p, -1, axis=0)
-        cr = p[:, 0] * q[:, 1] - q[:, 0] * p[:, 1]
-        area = 0.5 * float(np.sum(cr))
-        if area == 0.0:
+        _, c = area_centroid(p)
+        if c is None:
             continue
-        c = np.array([np.sum((p[:, 0] + q[:, 0]) * cr), np.sum((p[:, 1] + q[:, 1]) * cr)]) / (
-            6.0 * area)
         d = 2.0 * float(np.max(np.hypot(*(p - c).T)))
         if abs(float(np.hypot(*c)) - b.circle_radius) <= tol and abs(d - b.diameter) <= 2 * tol:
             found.append((c, d))

@@ -16,7 +16,7 @@ from gen.errors import ParamError
 from gen.findings import ERROR, INFO, Finding
 from gen.geometry.body import Prism
 from gen.geometry.screw_split import PRELOAD_SCREWS, SplitNut, split_nut
-from gen.geometry.section import Arc, Line, Loop, Section, circle
+from gen.geometry.section import Arc, Line, Loop, Section, area_centroid, circle
 from gen.kinds.base import Formula
 from gen.tolerances import LIMITS, TOL
 from gen.validate.printability import print_limits
@@ -138,13 +138,9 @@ def measure_split(slicer, sp: SplitNut, length: float) -> dict:
         best = None
         for p in slicer(z):
             p = np.asarray(p, dtype=float)[:, :2]
-            q = np.roll(p, -1, axis=0)
-            cr = p[:, 0] * q[:, 1] - q[:, 0] * p[:, 1]
-            area = 0.5 * float(np.sum(cr))
-            if area == 0.0:
+            _, cen = area_centroid(p)
+            if cen is None:
                 continue
-            cen = np.array([np.sum((p[:, 0] + q[:, 0]) * cr),
-                            np.sum((p[:, 1] + q[:, 1]) * cr)]) / (6.0 * area)
             if best is None or np.hypot(*(cen - c)) < np.hypot(*(best[0] - c)):
                 # an inscribed polygon's corners lie on the circle; boolean splits add
                 # points on its sides, inside it: the farthest corner gives the diameter
