@@ -50,6 +50,23 @@ def default_jobs() -> int:
         return max(1, os.cpu_count() or 1)
 
 
+def report_inputs(out: str, result) -> str:
+    """SHA-256 of what the build page is drawn from: the tool version, the parameter files'
+    bytes and the manifest just written (parts' hashes and files' SHA-256)."""
+    import hashlib
+
+    from gen import __version__
+
+    h = hashlib.sha256(__version__.encode())
+    for path in sorted(result.project.files or ()):
+        h.update(os.path.abspath(path).encode())
+        with open(path, "rb") as fh:
+            h.update(fh.read())
+    with open(os.path.join(out, "manifest.json"), "rb") as fh:
+        h.update(fh.read())
+    return h.hexdigest()
+
+
 def run(args) -> int:
     from gen.build import Progress, build
     from gen.api import check_files
@@ -107,7 +124,7 @@ def run(args) -> int:
     from gen.cli.check import write_report
 
     write_report(os.path.join(args.out, "report.html"), result, out_dir=args.out,
-                 outcomes=report.outcomes)
+                 outcomes=report.outcomes, inputs_key=report_inputs(args.out, result))
     built = sum(o.status == "built" for o in report.outcomes.values())
     kept = sum(o.status == "up_to_date" for o in report.outcomes.values())
     failed = sum(o.status == "failed" for o in report.outcomes.values())

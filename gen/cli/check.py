@@ -130,13 +130,16 @@ def json_doc(result) -> dict:
     }
 
 
-def write_report(path: str, result, *, out_dir=None, outcomes=None) -> None:
+def write_report(path: str, result, *, out_dir=None, outcomes=None,
+                 inputs_key: str | None = None) -> bool:
     """The whole-build page (issue 18): every part, mesh, belt drive, assembly and drive train.
-    After a build, ``out_dir`` and ``outcomes`` let it draw the parts from the files written."""
+    After a build, ``out_dir`` and ``outcomes`` let it draw the parts from the files written;
+    ``inputs_key``: see :func:`gen.export.report_build.write` (False: page left as it was)."""
     from gen.export.report_build import write
 
     title = "pitchline build report" if out_dir else "pitchline check report"
-    write(path, result, out_dir=out_dir, outcomes=outcomes, title=title)
+    return write(path, result, out_dir=out_dir, outcomes=outcomes, title=title,
+                 inputs_key=inputs_key)
 
 
 def run(args) -> int:

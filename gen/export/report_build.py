@@ -283,9 +283,27 @@ def render(result, *, out_dir=None, outcomes=None, title="pitchline build report
     return page(title, groups, sections)
 
 
-def write(path, result, *, out_dir=None, outcomes=None, title="pitchline build report") -> None:
-    """Write the page atomically."""
+#: the page's record of what it was drawn from (see :func:`write`)
+INPUTS_META = '<meta name="pitchline-inputs" content="{}">'
+
+
+def write(path, result, *, out_dir=None, outcomes=None, title="pitchline build report",
+          inputs_key: str | None = None) -> bool:
+    """Write the page atomically; returns False when it was left as it was.
+
+    ``inputs_key`` names what the page is drawn from (parameter files, manifest, tool
+    version): a page that already records the same key is not drawn again."""
+    import os
+
     from gen.export.atomic import write_atomic
 
-    write_atomic(str(path), render(result, out_dir=out_dir, outcomes=outcomes,
-                                   title=title).encode("utf-8"))
+    mark = INPUTS_META.format(inputs_key) if inputs_key else None
+    if mark and os.path.isfile(path):
+        with open(path, "rb") as fh:
+            if mark.encode() in fh.read(4096):
+                return False
+    text = render(result, out_dir=out_dir, outcomes=outcomes, title=title)
+    if mark:
+        text = text.replace('<meta charset="utf-8">', '<meta charset="utf-8">' + mark, 1)
+    write_atomic(str(path), text.encode("utf-8"))
+    return True
