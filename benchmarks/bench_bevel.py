@@ -61,7 +61,7 @@ def main(argv=None):
                 best[k] = min(best.get(k, 1e9), v)
     print(f"bevel {z}/{z} m 2: solid {best['solid']:.3f} s, STEP {best['step']:.3f} s, "
           f"triangles+STL {best['stl']:.3f} s, STEP+STL {best['total']:.3f} s (target ≤ 0.5)")
-    v_step, v_stl = solid.Volume(), tri.volume
+    v_step, v_stl = cadquery.Solid(solid).Volume(), tri.volume   # builder: a TopoDS_Solid
     print(f"STEP {len(step) / 1e6:.2f} MB, STL {len(stl) / 1e6:.2f} MB ({len(tri.faces)} triangles)")
     print(f"volume: solid {v_step:.1f} mm³, triangles {v_stl:.1f} mm³, "
           f"difference {100 * (v_stl - v_step) / v_step:+.3f} % (limit ±0.5 %)")

@@ -54,7 +54,7 @@ def main(argv=None):
                 solid = body_solid(body, check=False)
                 r["solid"] = T() - t
                 t = T()
-                check_solid(solid.wrapped, "rack")
+                check_solid(solid, "rack")   # the builder gives a TopoDS_Solid
                 r["check"] = T() - t
                 t = T()
                 data = step_bytes(solid, "rack", wd)

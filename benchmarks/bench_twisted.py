@@ -97,6 +97,8 @@ def rack_body(chevron: bool):
 
 
 def run_case(make, tmp: str, runs: int) -> dict:
+    import cadquery
+
     from gen.triangles.prism import body_triangles
     from gen.solid.prism import body_solid
 
@@ -108,7 +110,7 @@ def run_case(make, tmp: str, runs: int) -> dict:
         body = make()
         r["outline"] = T() - t
         t = T()
-        solid = body_solid(body, check=False)
+        solid = cadquery.Solid(body_solid(body, check=False))   # builder: a TopoDS_Solid
         r["solid"] = T() - t
         t = T()
         if not solid.isValid():

@@ -105,10 +105,13 @@ def to_trimesh(part):
 
 
 def to_cadquery(part):
-    """The part's solid as a ``cadquery.Solid`` (valid, one solid; imports the kernel)."""
+    """The part's solid as a ``cadquery.Solid`` (valid, one solid; imports cadquery, which
+    the build itself never does: it wraps the builders' ``TopoDS_Solid``)."""
+    import cadquery as cq
+
     from gen.build.export import make_solid
 
-    return make_solid(require_ok(part))
+    return cq.Solid(make_solid(require_ok(part)))
 
 
 def write_files(part, out: str, formats=("step", "stl")) -> dict:

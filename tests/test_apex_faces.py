@@ -22,10 +22,12 @@ def gear():
 
 @pytest.fixture(scope="module")
 def solid(gear):
+    import cadquery as cq
+
     from gen.solid.bevel import build_bevel_solid
 
     s, fl = gear
-    return build_bevel_solid(s, BORE, flank=fl)
+    return cq.Solid(build_bevel_solid(s, BORE, flank=fl))   # the builder gives a TopoDS_Solid
 
 
 def test_flank_faces_are_ruled_through_the_apex(gear, solid):

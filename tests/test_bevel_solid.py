@@ -17,7 +17,7 @@ def gear():
     from gen.solid.bevel import build_bevel_solid
 
     s = bevel_sizes(Z, ZM, M, math.pi / 2, B, basic_rack("A"))
-    return s, build_bevel_solid(s, BORE)
+    return s, cq.Solid(build_bevel_solid(s, BORE))   # the builder gives a TopoDS_Solid
 
 
 def _section_points(solid, angle):

@@ -125,11 +125,13 @@ def test_bolts_into_lightening_holes_are_refused():
 
 @pytest.fixture(scope="module")
 def built():
+    import cadquery as cq
+
     from gen.solid import solid
     from gen.triangles import triangles
 
     part = fly(RIM)
-    return part, triangles(part.shape, part.chord_tol), solid(part.shape)
+    return part, triangles(part.shape, part.chord_tol), cq.Solid(solid(part.shape))
 
 
 def test_bolt_holes_counted_on_a_slice(built):

@@ -134,13 +134,15 @@ def test_teeth_and_dots_counted_on_slices(built):
 
 
 def test_one_step_build(built, tmp_path):
+    import cadquery as cq
+
     from gen.export.step import read_step
     from gen.build import export_part
 
     _, model, mesh = built
     out = export_part(model, str(tmp_path), ("step",))
     assert out.ok, out.findings
-    shape = read_step(str(tmp_path / out.files["step"]["path"]))
+    shape = cq.Shape.cast(read_step(str(tmp_path / out.files["step"]["path"])))
     assert shape.Volume() == pytest.approx(mesh.volume, rel=1e-3)
 
 

@@ -111,13 +111,14 @@ def test_helix_measured_on_exported_stl(built):
 
 
 def test_step_reimports_and_volumes_agree(built):
+    import cadquery as cq
     import trimesh
 
     from gen.export.step import read_step
 
     out, _ = built
     for name in ("hel", "her", "hrack", "vrack"):
-        shape = read_step(str(out / f"{name}.step"))
+        shape = cq.Shape.cast(read_step(str(out / f"{name}.step")))
         assert len(shape.Solids()) == 1 and shape.Solids()[0].isValid(), name
         mesh = trimesh.load(out / f"{name}.stl")
         assert mesh.is_watertight

@@ -203,7 +203,9 @@ def step_round_trip(tmp_path_factory):
     asm = res.assemblies[0]
     path = d / "set.step"
     assembly_step(asm, res.models, str(path))
-    return res, asm, read_step(str(path)), path
+    import cadquery as cq
+
+    return res, asm, cq.Shape.cast(read_step(str(path))), path
 
 
 def test_assembly_step_holds_each_member_as_a_valid_solid(step_round_trip):

@@ -24,7 +24,18 @@ from gen.geometry.generate import generate_flank  # noqa: E402
 from gen.geometry.rack_outline import rack_loop, rack_sizes  # noqa: E402
 from gen.geometry.section import Arc, Line, Loop, Section, circle  # noqa: E402
 from gen.triangles.prism import body_triangles  # noqa: E402
-from gen.solid.prism import HELIX_FIT, body_solid, prism_solid  # noqa: E402
+from gen.solid.prism import HELIX_FIT  # noqa: E402
+from gen.solid import prism as _prism  # noqa: E402
+
+
+def body_solid(body: Body, check: bool = True) -> cq.Solid:
+    """The builder's TopoDS_Solid wrapped for cadquery's measuring methods."""
+    return cq.Solid(_prism.body_solid(body, check))
+
+
+def prism_solid(prism: Prism, check: bool = True) -> cq.Solid:
+    """The builder's TopoDS_Solid wrapped for cadquery's measuring methods."""
+    return cq.Solid(_prism.prism_solid(prism, check))
 
 BETA = math.radians(30)
 

@@ -78,10 +78,10 @@ def test_whole_pitches_and_joint_error(racks):
 
 
 def test_helical_rack_solid_ends_at_its_length(racks):
-    pytest.importorskip("cadquery")
+    cq = pytest.importorskip("cadquery")
     from gen.solid import solid
 
-    bb = solid(racks["hx"].shape).BoundingBox()
+    bb = cq.Solid(solid(racks["hx"].shape)).BoundingBox()
     # the kernel's bounding box carries the edge tolerance (1e-7 mm) on each side
     assert bb.xmin == pytest.approx(0.0, abs=1e-6) and bb.xmax == pytest.approx(100.0, abs=1e-6)
 

@@ -120,9 +120,11 @@ def test_random_gear_solid_is_valid(values):
     assume(not want and margin > 0.01)    # only gears the closed forms accept
     model = _model(values)
     assert not has_errors(model.findings)
+    import cadquery as cq
+
     from gen.solid.prism import body_solid
 
-    solid = body_solid(model.shape)
+    solid = cq.Solid(body_solid(model.shape))   # the builder gives a TopoDS_Solid
     assert solid.isValid()
     mesh = body_triangles(model.shape, model.chord_tol)
     assert math.isclose(solid.Volume(), mesh.volume, rel_tol=5e-3)

@@ -145,6 +145,8 @@ def test_holes_remove_their_cylinders():
 
 @pytest.fixture(scope="module")
 def solid_roundtrip(tmp_path_factory):
+    import cadquery as cq
+
     from gen.export.step import read_step, write_step
     from gen.solid import solid
 
@@ -152,7 +154,8 @@ def solid_roundtrip(tmp_path_factory):
     s = solid(Revolved(rect(a, R, 0, h), (HoleCircle(n, d, rc),)))
     path = tmp_path_factory.mktemp("rev") / "disc.step"
     write_step(s, str(path), "disc")
-    return (R, a, h, n, d, rc), s, read_step(str(path))
+    # the builder and the reader give TopoDS shapes: wrapped for cadquery's measurements
+    return (R, a, h, n, d, rc), cq.Solid(s), cq.Shape.cast(read_step(str(path)))
 
 
 def test_solid_is_exact_and_valid(solid_roundtrip):

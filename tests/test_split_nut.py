@@ -127,11 +127,13 @@ def test_slit_over_the_flange_and_unknown_screw():
 
 @pytest.fixture(scope="module")
 def built():
+    import cadquery as cq
+
     from gen.solid import solid
     from gen.triangles import triangles
 
     part = nut(chord_tolerance=0.02)
-    return part, triangles(part.shape, part.chord_tol), solid(part.shape)
+    return part, triangles(part.shape, part.chord_tol), cq.Solid(solid(part.shape))
 
 
 def test_slit_gap_measured_on_the_triangles(built):

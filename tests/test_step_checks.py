@@ -86,5 +86,5 @@ def test_bored_herringbone_has_no_c0_curve_or_surface():
 
     g = api.make("herringbone_gear", "h", module=1.5, teeth=16, face_width=12, helix_angle=25,
                  bore=5)
-    rep = analyse_shape(make_solid(g).wrapped)
+    rep = analyse_shape(make_solid(g))   # a TopoDS_Solid
     assert rep.valid and rep.c0_surfaces == 0 and rep.c0_curves == 0

@@ -14,12 +14,12 @@ from gen.findings import ERROR, Finding
 
 
 def assembly_items(asm, models, out: str | None = None):
-    """[(part name, solid, 4×4 pose)] of an assembly's parts.
+    """[(part name, solid, 4×4 pose)] of an assembly's parts (solids as ``TopoDS_Solid``).
 
     A solid already exported this build is read back from its STEP file rather than rebuilt
     (the same bytes, so the same geometry); parts with equal parameters share one solid here,
     and :func:`gen.export.step.write_step_assembly` gives each placement its own product."""
-    from gen.export.step import read_step
+    from gen.export.step import step_solids
     from gen.solid import solid
 
     items, cache = [], {}
@@ -29,7 +29,7 @@ def assembly_items(asm, models, out: str | None = None):
                          default=str)
         if key not in cache:
             done = os.path.join(out, part + ".step") if out else None
-            cache[key] = (read_step(done).Solids()[0] if done and os.path.exists(done)
+            cache[key] = (step_solids(done)[0] if done and os.path.exists(done)
                           else solid(model.shape))
         items.append((part, cache[key], pose))
     return items

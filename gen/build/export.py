@@ -37,10 +37,11 @@ class Made:
 
     def solid(self):
         if self._solid is None:
+            from gen.export.step import shape_volume
             from gen.solid import solid
 
             s = solid(self.part.shape)
-            vol = s.Volume()
+            vol = shape_volume(s)
             tri = float(self.triangles.volume)
             if abs(vol - tri) > VOLUME_REL * abs(vol):
                 raise PitchlineError(f"solid volume {vol:.3f} mm³ and triangle volume "
@@ -58,7 +59,8 @@ def make_triangles(part):
 
 
 def make_solid(part):
-    """Solid of a part, by the builder its shape names (imports the kernel)."""
+    """Solid (``TopoDS_Solid``) of a part, by the builder its shape names (imports the kernel's
+    OCP modules, not cadquery)."""
     from gen.solid import solid
 
     return solid(part.shape)

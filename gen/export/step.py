@@ -26,6 +26,7 @@ from __future__ import annotations
 import os
 import re
 from dataclasses import dataclass
+from functools import lru_cache
 
 from gen.tolerances import TOL
 
@@ -37,8 +38,19 @@ _STAMP = re.compile(rb"FILE_NAME\('([^']*)','[^']*'")
 _PRODUCT = re.compile(rb"PRODUCT\('([^']*?) \d+','([^']*?) \d+'")
 
 
+@lru_cache(maxsize=None)
+def _quiet() -> None:
+    """Let the kernel's default messenger print failures only (its STEP reader and writers
+    otherwise print transfer statistics on standard output)."""
+    from OCP.Message import Message, Message_Gravity
+
+    for printer in Message.DefaultMessenger_s().Printers():
+        printer.SetTraceLevel(Message_Gravity.Message_Fail)
+
+
 def step_bytes(shape, name: str, workdir: str) -> bytes:
     """STEP text of ``shape`` with the product named ``name`` and a fixed time stamp."""
+    _quiet()
     from OCP.IFSelect import IFSelect_RetDone
     from OCP.Interface import Interface_Static
     from OCP.STEPControl import STEPControl_AsIs, STEPControl_Writer
@@ -51,7 +63,7 @@ def step_bytes(shape, name: str, workdir: str) -> bytes:
     Interface_Static.SetIVal_s("write.surfacecurve.mode", 0)
     shapes = shape if isinstance(shape, (list, tuple)) else [shape]
     for s in shapes:
-        if writer.Transfer(s.wrapped, STEPControl_AsIs) != IFSelect_RetDone:
+        if writer.Transfer(getattr(s, "wrapped", s), STEPControl_AsIs) != IFSelect_RetDone:
             raise ExportError(f"STEP transfer failed for {name}")
     data = _through_file(workdir, lambda tmp: writer.Write(tmp) == IFSelect_RetDone, name)
     return normalise(data, name)
@@ -235,6 +247,7 @@ def read_step_shape(path: str):
     from OCP.IFSelect import IFSelect_RetDone
     from OCP.STEPControl import STEPControl_Reader
 
+    _quiet()
     reader = STEPControl_Reader()
     if reader.ReadFile(path) != IFSelect_RetDone:
         raise ExportError("the written STEP cannot be read back")
@@ -282,32 +295,99 @@ def step_verifier(what: str, solids: int, volume: float, rel: float = STEP_VOLUM
     return verify
 
 
+def _assembly_document(items, name: str):
+    """XCAF document of an assembly: one top shape ``name`` with one component per item.
+
+    Each placement gets its own copy of its solid (``BRepBuilderAPI_Copy``, geometry copied)
+    in a compound of its own, a product named after the part; the component placing it is
+    named after the part too. The label structure and names are those the writer turns into
+    the products of the file."""
+    from OCP.BRep import BRep_Builder
+    from OCP.BRepBuilderAPI import BRepBuilderAPI_Copy
+    from OCP.TCollection import TCollection_ExtendedString
+    from OCP.TDataStd import TDataStd_Name
+    from OCP.TDocStd import TDocStd_Document
+    from OCP.TopLoc import TopLoc_Location
+    from OCP.TopoDS import TopoDS_Compound
+    from OCP.XCAFApp import XCAFApp_Application
+    from OCP.XCAFDoc import XCAFDoc_DocumentTool
+    from OCP.gp import gp_Trsf
+
+    def label_name(label, text: str) -> None:
+        TDataStd_Name.Set_s(label, TCollection_ExtendedString(text))
+
+    doc = TDocStd_Document(TCollection_ExtendedString("XmlXCAF"))
+    XCAFApp_Application.GetApplication_s().InitDocument(doc)
+    tool = XCAFDoc_DocumentTool.ShapeTool_s(doc.Main())
+    tool.SetAutoNaming_s(False)
+    top = tool.NewShape()
+    label_name(top, name)
+    builder = BRep_Builder()
+    for part, shape, T in items:
+        compound = TopoDS_Compound()
+        builder.MakeCompound(compound)
+        builder.Add(compound, BRepBuilderAPI_Copy(shape, True, False).Shape())
+        product = tool.NewShape()
+        tool.SetShape(product, compound)
+        label_name(product, part)
+        trsf = gp_Trsf()
+        trsf.SetValues(*(float(T[i, j]) for i in range(3) for j in range(4)))
+        label_name(tool.AddComponent(top, product, TopLoc_Location(trsf)), part)
+    tool.UpdateAssemblies()
+    return doc
+
+
+def _write_document(doc, path: str) -> bool:
+    """Write an XCAF document as STEP (AP214, mm, names on, curves on faces written)."""
+    from OCP.IFSelect import IFSelect_RetDone
+    from OCP.Interface import Interface_Static
+    from OCP.STEPCAFControl import STEPCAFControl_Writer
+    from OCP.STEPControl import STEPControl_AsIs
+    from OCP.XSControl import XSControl_WorkSession
+
+    _quiet()
+    writer = STEPCAFControl_Writer(XSControl_WorkSession(), False)
+    writer.SetColorMode(True)
+    writer.SetLayerMode(True)
+    writer.SetNameMode(True)
+    Interface_Static.SetCVal_s("write.step.schema", "AP214IS")
+    Interface_Static.SetIVal_s("write.surfacecurve.mode", 1)
+    Interface_Static.SetIVal_s("write.precision.mode", 0)
+    Interface_Static.SetIVal_s("write.stepcaf.subshapes.name", 1)
+    Interface_Static.SetCVal_s("xstep.cascade.unit", "MM")
+    Interface_Static.SetCVal_s("write.step.unit", "MM")
+    if not writer.Transfer(doc, STEPControl_AsIs):
+        return False
+    return writer.Write(path) == IFSelect_RetDone
+
+
 def write_step_assembly(items, path: str, name: str) -> int:
-    """STEP of named, placed solids: ``items`` = [(part name, shape, 4×4 pose matrix)].
+    """STEP of named, placed solids: ``items`` = [(part name, solid, 4×4 pose matrix)]; a
+    solid is a ``TopoDS_Shape`` (or anything with one in ``.wrapped``).
 
     Written through the XCAF writer so that every solid keeps its name in CAD. Every placement
     gets its own copy of the solid, so that identical parts (the two inputs of a differential)
     become separate products, each named after its part, instead of one shared product."""
-    import cadquery as cq
-    from cadquery.occ_impl.exporters.assembly import exportAssembly
-    from OCP.gp import gp_Trsf
+    from OCP.BRepCheck import BRepCheck_Analyzer
 
     from gen.errors import GeometryError
 
-    assy = cq.Assembly(name=name)
-    volume, seen = 0.0, {}
+    volume, seen, placed = 0.0, [], []
     for part, shape, T in items:
-        if not shape.isValid():
-            raise GeometryError(f"assembly STEP: the solid of {part} is not valid")
-        key = id(shape.wrapped.TShape())
-        if key not in seen:   # each solid was analysed when its part's STEP was written
-            seen[key] = shape_volume(shape.wrapped)
-        volume += seen[key]
-        trsf = gp_Trsf()
-        trsf.SetValues(*(float(T[i, j]) for i in range(3) for j in range(4)))
-        assy.add(shape.copy(), name=part, loc=cq.Location(trsf))
+        shape = getattr(shape, "wrapped", shape)
+        # a solid placed twice is measured once (the same TShape: IsSame); each solid was
+        # analysed when its part's STEP was written
+        vol = next((v for s, v in seen if s.IsSame(shape)), None)
+        if vol is None:
+            if not BRepCheck_Analyzer(shape).IsValid():
+                raise GeometryError(f"assembly STEP: the solid of {part} is not valid")
+            vol = shape_volume(shape)
+            seen.append((shape, vol))
+        volume += vol
+        placed.append((part, shape, T))
+    doc = _assembly_document(placed, name)
     data = _through_file(os.path.dirname(os.path.abspath(path)),
-                         lambda tmp: exportAssembly(assy, tmp), name)
+                         lambda tmp: _write_document(doc, tmp), name)
     data = normalise(data, name)
     write_atomic(path, data, step_verifier(name, len(items), volume))
     return len(data)
@@ -356,10 +436,22 @@ def write_step(shape, path: str, name: str, volume: float | None = None,
 
 
 def read_step(path: str):
-    """Re-import a STEP file (cadquery) and return its shape."""
-    import cadquery as cq
+    """Re-import a STEP file with the kernel's reader; returns its ``TopoDS_Shape`` (the same
+    as :func:`read_step_shape`)."""
+    return read_step_shape(path)
 
-    return cq.importers.importStep(path).val()
+
+def step_solids(path: str) -> list:
+    """The solids (``TopoDS_Solid``) of a STEP file as re-read, in the file's order."""
+    from OCP.TopAbs import TopAbs_SOLID
+    from OCP.TopExp import TopExp_Explorer
+    from OCP.TopoDS import TopoDS
+
+    out, ex = [], TopExp_Explorer(read_step_shape(path), TopAbs_SOLID)
+    while ex.More():
+        out.append(TopoDS.Solid_s(ex.Current()))
+        ex.Next()
+    return out
 
 
 #: the last STEP that passed the re-read: (solid, part name, bytes, analysis); a part of the

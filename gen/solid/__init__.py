@@ -1,5 +1,6 @@
-"""Solid builders: shape descriptions → B-rep solids. The only package that imports the CAD
-kernel (cadquery/OCP), always inside functions.
+"""Solid builders: shape descriptions → B-rep solids (``TopoDS_Solid``). With
+:mod:`gen.export.step`, the only place that imports the CAD kernel (OCP only — never
+cadquery, whose import costs seconds and hundreds of MiB), always inside functions.
 
 A part's ``shape`` names its builder (``shape.builder``); :data:`BUILDERS` maps the name to
 the function that makes the solid.
@@ -9,7 +10,7 @@ from __future__ import annotations
 
 import importlib
 
-#: builder name -> (module, function(shape) -> cadquery.Solid)
+#: builder name -> (module, function(shape) -> TopoDS_Solid)
 BUILDERS = {
     "prism": ("gen.solid.prism", "body_solid"),
     "apex_ruled": ("gen.solid.bevel", "apex_solid"),
@@ -24,5 +25,8 @@ def solid(shape):
 
 
 def preload() -> None:
-    """Import the kernel now (before forking workers, so that they share it)."""
-    import cadquery  # noqa: F401
+    """Import the kernel modules a build uses now (before forking workers, so that they
+    share them): the builders' classes and the STEP writer's and reader's modules."""
+    from gen.solid.kernel import preload_kernel
+
+    preload_kernel()

@@ -17,18 +17,16 @@ from gen.solid.kernel import as_solid, check_solid
 
 
 def build_bevel_solid(sizes: BevelSizes, bore_diameter: float, *, flank=None, check: bool = True):
-    """One valid straight bevel gear solid (``cadquery.Solid``), bore Ø ``bore_diameter`` mm.
+    """One valid straight bevel gear solid (``TopoDS_Solid``), bore Ø ``bore_diameter`` mm.
 
     Raises GeometryError when the shell is not exactly one valid solid.
     """
-    import cadquery as cq
-
     if flank is None:
         flank = virtual_flank(sizes)
     shape = apex_shell(sizes, bore_diameter / 2.0, flank)
     if check:
         check_solid(shape, "bevel gear solid")
-    return cq.Solid(as_solid(shape))
+    return as_solid(shape)
 
 
 def apex_solid(shape):

@@ -44,15 +44,43 @@ _OCC_NAMES = {
 }
 
 
+#: OCP modules the build path loads besides :data:`_OCC_NAMES`: the other builders' imports
+#: and the STEP export (writer, XCAF assembly document, reader, shape analysis)
+_BUILD_MODULES = (
+    "OCP.BRepBuilderAPI", "OCP.BRepPrimAPI", "OCP.TopTools",
+    "OCP.IFSelect", "OCP.Interface", "OCP.STEPControl", "OCP.STEPCAFControl",
+    "OCP.XSControl", "OCP.TDocStd", "OCP.XCAFApp", "OCP.XCAFDoc", "OCP.TDataStd",
+    "OCP.TCollection", "OCP.BRepGProp", "OCP.GProp", "OCP.ShapeAnalysis", "OCP.BRepAdaptor",
+    "OCP.BRepLib", "OCP.Message",
+)
+
+
 @lru_cache(maxsize=None)
 def occ() -> SimpleNamespace:
     """The OCP classes used here, imported on first use (the kernel loads in ~0.5–3 s)."""
+    quiet_kernel()
     ns = {}
     for module, names in _OCC_NAMES.items():
         mod = importlib.import_module(module)
         ns.update({n: getattr(mod, n) for n in names})
     return SimpleNamespace(**ns)
 
+
+@lru_cache(maxsize=None)
+def quiet_kernel() -> None:
+    """Let the kernel's default messenger print failures only: its readers and writers
+    otherwise print transfer statistics on standard output, between the build's own lines."""
+    from OCP.Message import Message, Message_Gravity
+
+    for printer in Message.DefaultMessenger_s().Printers():
+        printer.SetTraceLevel(Message_Gravity.Message_Fail)
+
+
+def preload_kernel() -> None:
+    """Import every OCP module a build uses (:func:`occ` and :data:`_BUILD_MODULES`)."""
+    occ()
+    for module in _BUILD_MODULES:
+        importlib.import_module(module)
 
 
 def check_solid(shape, what: str = "solid"):

@@ -1,7 +1,8 @@
 """B-rep solids of straight, twisted (helical), sheared and chevron prisms: the public builders.
 
-cadquery/OCP are imported lazily, inside the functions. Input is the neutral description of
-:mod:`gen.geometry.body`.
+OCP is imported lazily, inside the functions (:func:`gen.solid.kernel.occ`); the builders
+return ``TopoDS_Solid`` (``gen.api.to_cadquery`` wraps one for cadquery users). Input is the
+neutral description of :mod:`gen.geometry.body`.
 
 * Straight prism: one planar face with holes (lines, circles, fitted B-splines) extruded by
   ``BRepPrimAPI_MakePrism``; a sheared (helical rack) prism is the same face extruded along
@@ -122,33 +123,32 @@ def _raw_prism(prism: Prism, extra_holes=()):
 
 
 def prism_solid(prism: Prism, check: bool = True):
-    """cadquery.Solid of one prism (straight, twisted, sheared or chevron); validity checked."""
-    import cadquery as cq
-
+    """``TopoDS_Solid`` of one prism (straight, twisted, sheared or chevron); validity checked."""
     shape = _raw_prism(prism)
     if check:
         check_solid(shape, "prism")
-    return cq.Solid(as_solid(shape))
+    return as_solid(shape)
 
 
 def radial_hole_solid(hole):
-    """cadquery cylinder for a :class:`gen.geometry.body.RadialHole`."""
-    import cadquery as cq
+    """Cylinder (``TopoDS_Shape``) of a :class:`gen.geometry.body.RadialHole`: axis from radius
+    ``r0`` to ``r1`` (mm) along the hole's polar angle at height ``z``, full turn."""
+    from OCP.BRepPrimAPI import BRepPrimAPI_MakeCylinder
 
+    o = occ()
     c, s = math.cos(hole.angle), math.sin(hole.angle)
-    return cq.Solid.makeCylinder(hole.diameter / 2.0, hole.r1 - hole.r0,
-                                 cq.Vector(hole.r0 * c, hole.r0 * s, hole.z), cq.Vector(c, s, 0))
+    ax = o.gp_Ax2(o.gp_Pnt(hole.r0 * c, hole.r0 * s, hole.z), o.gp_Dir(c, s, 0.0))
+    return BRepPrimAPI_MakeCylinder(ax, hole.diameter / 2.0, hole.r1 - hole.r0,
+                                    2.0 * math.pi).Shape()
 
 
 def body_solid(body: Body, check: bool = True):
-    """cadquery.Solid of ``body``: union of its prisms minus its cuts.
+    """``TopoDS_Solid`` of ``body``: union of its prisms minus its cuts.
 
     A stack of prisms (:mod:`gen.geometry.stack`) is one shell built face by face.
     Straight through-cuts that :func:`plan_cuts` can place become plain holes of the faces;
     the rest, and unions of several prisms, use OCC booleans (their cost is in the bench).
     """
-    import cadquery as cq
-
     o = occ()
     plan = plan_cuts(body)
     layout = stack_layout(body, plan)
@@ -168,11 +168,11 @@ def body_solid(body: Body, check: bool = True):
             raise GeometryError("cutting a feature out of the body failed")
         shape = op.Shape()
     for h in body.radial_holes:
-        op = o.BRepAlgoAPI_Cut(shape, radial_hole_solid(h).wrapped)
+        op = o.BRepAlgoAPI_Cut(shape, radial_hole_solid(h))
         if not op.IsDone():
             raise GeometryError("drilling a set-screw hole failed")
         shape = op.Shape()
     if check:
         check_solid(shape, "body")
-    return cq.Solid(as_solid(shape))
+    return as_solid(shape)
 

@@ -69,10 +69,8 @@ def revolved_shape(shape):
 
 
 def revolved_solid(shape, check: bool = True):
-    """``cadquery.Solid`` of a :class:`gen.geometry.body.Revolved` (the builder table's entry)."""
-    import cadquery as cq
-
+    """``TopoDS_Solid`` of a :class:`gen.geometry.body.Revolved` (the builder table's entry)."""
     result = revolved_shape(shape)
     if check:
         check_solid(result, "revolved body")
-    return cq.Solid(as_solid(result))
+    return as_solid(result)
