@@ -88,3 +88,24 @@ def test_bored_herringbone_has_no_c0_curve_or_surface():
                  bore=5)
     rep = analyse_shape(make_solid(g))   # a TopoDS_Solid
     assert rep.valid and rep.c0_surfaces == 0 and rep.c0_curves == 0
+
+
+def test_step_bytes_do_not_depend_on_the_writers_session_counters():
+    # the kernel's writer numbers products and assembly occurrences per process and wraps
+    # lines at a width those numbers change (seen on the demo: --jobs 1 against a worker
+    # pool); two such texts of one model must normalise to the same bytes
+    from gen.export.step import normalise
+
+    head = b"FILE_NAME('x','2026-01-01T10:00:00',('a'),(\n"
+    a = (head + b"#7 = PRODUCT('wheel 10','wheel 10','',(\n    #8));\n"
+         b"#9 = NEXT_ASSEMBLY_USAGE_OCCURRENCE('7','wheel','',#5,\n  #6,$);\n"
+         b"#10 = NEXT_ASSEMBLY_USAGE_OCCURRENCE('8','pin','',#5,#11,$);\n")
+    b = (head + b"#7 = PRODUCT('wheel 2','wheel 2','',(#8)\n  );\n"
+         b"#9 = NEXT_ASSEMBLY_USAGE_OCCURRENCE('1','wheel','',#5,#6,\n  $);\n"
+         b"#10 = NEXT_ASSEMBLY_USAGE_OCCURRENCE('2','pin','',#5,#11,$);\n")
+    na, nb = normalise(a, "m"), normalise(b, "m")
+    assert na == nb
+    assert b"PRODUCT('wheel','wheel','',(#8));\n" in na
+    assert b"NEXT_ASSEMBLY_USAGE_OCCURRENCE('1','wheel'" in na
+    assert b"NEXT_ASSEMBLY_USAGE_OCCURRENCE('2','pin'" in na
+    assert b"FILE_NAME('m','1970-01-01T00:00:00'" in na

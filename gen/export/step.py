@@ -36,6 +36,10 @@ from gen.export.atomic import folder_problem, temp_path, write_atomic
 _STAMP = re.compile(rb"FILE_NAME\('([^']*)','[^']*'")
 # the writer numbers products per session ('name 2', 'name 4' …): drop the counter
 _PRODUCT = re.compile(rb"PRODUCT\('([^']*?) \d+','([^']*?) \d+'")
+# entities whose text carries per-session counters, with their line continuations
+_SESSION_ENTITY = re.compile(rb"(#\d+ = (?:PRODUCT|NEXT_ASSEMBLY_USAGE_OCCURRENCE)\()(.*?)\);\n",
+                             re.DOTALL)
+_NAUO = re.compile(rb"NEXT_ASSEMBLY_USAGE_OCCURRENCE\('\d+'")
 
 
 @lru_cache(maxsize=None)
@@ -85,8 +89,15 @@ def _through_file(workdir: str, write, name: str) -> bytes:
 
 
 def normalise(data: bytes, name: str) -> bytes:
-    """Fixed time stamp and product names without the writer's session counters."""
+    """Bytes that depend on the input only, not on what the process wrote before: a fixed
+    time stamp, product names without the writer's session counters, assembly occurrence ids
+    numbered from 1 in file order, and those entities on one line each (the writer wrapped
+    them at a width that the counters changed)."""
+    data = _SESSION_ENTITY.sub(lambda m: m.group(1) + re.sub(rb"\n\s*", b"", m.group(2)) + b");\n",
+                               data)
     data = _PRODUCT.sub(rb"PRODUCT('\1','\2'", data)
+    ids = iter(range(1, 1 << 30))
+    data = _NAUO.sub(lambda m: b"NEXT_ASSEMBLY_USAGE_OCCURRENCE('%d'" % next(ids), data)
     return _STAMP.sub(lambda m: b"FILE_NAME('" + name.encode() + b"','1970-01-01T00:00:00'",
                       data, count=1)
 
