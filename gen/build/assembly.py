@@ -66,12 +66,11 @@ def export_assembly(asm, models, out) -> PartOutcome:
     return oc
 
 
-def export_assemblies(result, out, formats, report, prev, run_many=None) -> None:
-    """Every assembly's STEP, unless it and its parts are up to date. ``run_many(names)``
-    exports the named assemblies elsewhere (worker processes) and yields their outcomes;
-    default: here, one after the other."""
+def plan_assemblies(result, out, formats, report, prev) -> list:
+    """The assemblies to export; those that are up to date (the assembly and every part of it)
+    get their outcome in ``report.outcomes`` here."""
     if "step" not in formats:
-        return
+        return []
     todo = []
     for asm in result.assemblies:
         parts = [report.outcomes.get(p) for p in asm.poses]
@@ -84,9 +83,11 @@ def export_assemblies(result, out, formats, report, prev, run_many=None) -> None
             report.outcomes[key] = oc
         else:
             todo.append(asm)
-    if run_many is not None and len(todo) > 1:
-        for oc in run_many([a.name for a in todo]):
-            report.outcomes[oc.name] = oc
-        return
-    for asm in todo:
+    return todo
+
+
+def export_assemblies(result, out, formats, report, prev) -> None:
+    """Every assembly's STEP, here, one after the other, unless it and its parts are up to
+    date (the parts already exported)."""
+    for asm in plan_assemblies(result, out, formats, report, prev):
         report.outcomes[f"assembly:{asm.name}"] = export_assembly(asm, result.models, out)

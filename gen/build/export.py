@@ -38,9 +38,8 @@ class Made:
     def solid(self):
         if self._solid is None:
             from gen.export.step import shape_volume
-            from gen.solid import solid
 
-            s = solid(self.part.shape)
+            s = make_solid(self.part)   # looked up now: a group of equal parts shares one
             vol = shape_volume(s)
             tri = float(self.triangles.volume)
             if abs(vol - tri) > VOLUME_REL * abs(vol):

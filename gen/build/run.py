@@ -25,7 +25,7 @@ import time
 from dataclasses import dataclass, field
 
 from gen.build import export as _export
-from gen.build.assembly import export_assemblies
+from gen.build.assembly import export_assemblies, plan_assemblies
 from gen.build.cache import (expected_formats, geometry_cost, params_hash, read_manifest,
                              read_manifest_doc, sha256_file, up_to_date)
 from gen.build.clean import remove_stale
@@ -70,6 +70,54 @@ def _export_group(models, names, out, formats, options=None) -> list:
         return [export_part(models[n], out, formats, options) for n in names]
     finally:
         _export.make_triangles, _export.make_solid = real_tri, real_solid
+
+
+def _run_pool(pool, workers: int, jobs_list, assemblies, report, progress) -> None:
+    """Part groups (longest first) and assemblies on the pool, at most ``workers`` tasks in
+    flight; an assembly is sent as soon as every part it places is exported (it reads their
+    STEP files), ahead of the parts still waiting, so that it overlaps them."""
+    import queue
+
+    done_q = queue.Queue()
+    parts = list(jobs_list)
+    waiting = {a.name: set(a.poses) for a in assemblies}
+    ready = []
+    finished = set(report.outcomes)
+
+    def release():
+        for name in [n for n, need in waiting.items() if need <= finished]:
+            ready.append(name)
+            del waiting[name]
+
+    def send(fn, arg, kind):
+        pool.apply_async(fn, (arg,), callback=lambda r: done_q.put((kind, r)),
+                         error_callback=lambda e: done_q.put(("error", e)))
+
+    release()
+    in_flight = 0
+    while parts or ready or in_flight or waiting:
+        while in_flight < workers and (ready or parts):
+            if ready:
+                send(_assembly_work, ready.pop(0), "assembly")
+            else:
+                send(_work, parts.pop(0), "parts")
+            in_flight += 1
+        if not in_flight:   # assemblies whose parts never came: none left to wait for
+            ready.extend(waiting)
+            waiting.clear()
+            continue
+        kind, got = done_q.get()
+        in_flight -= 1
+        if kind == "error":
+            raise got
+        if kind == "assembly":
+            report.outcomes[got.name] = got
+            continue
+        for oc in got:
+            report.outcomes[oc.name] = oc
+            finished.add(oc.name)
+            progress.step(oc)
+        release()
 
 
 @dataclass
@@ -152,13 +200,10 @@ def build(result, out: str, formats, *, force: bool = False, jobs: int = 1,
         _JOB.update(models=models, out=out, formats=tuple(formats), options=options,
                     assemblies=tuple(result.assemblies))
         ctx = mp.get_context("fork")
-        with ctx.Pool(min(jobs, len(jobs_list))) as pool:
-            for ocs in pool.imap_unordered(_work, jobs_list):
-                for oc in ocs:
-                    report.outcomes[oc.name] = oc
-                    progress.step(oc)
-            export_assemblies(result, out, formats, report, prev,
-                              run_many=lambda names: pool.imap_unordered(_assembly_work, names))
+        workers = min(jobs, len(jobs_list))
+        with ctx.Pool(workers) as pool:
+            _run_pool(pool, workers, jobs_list, plan_assemblies(result, out, formats, report,
+                                                                prev), report, progress)
         _JOB.clear()
     else:
         for names in jobs_list:
