@@ -52,7 +52,8 @@ def default_jobs() -> int:
 
 def report_inputs(out: str, result) -> str:
     """SHA-256 of what the build page is drawn from: the tool version, the parameter files'
-    bytes and the manifest just written (parts' hashes and files' SHA-256)."""
+    bytes and the manifest just written (parts' hashes and files' SHA-256), less the parts'
+    build status."""
     import hashlib
 
     from gen import __version__
@@ -62,8 +63,18 @@ def report_inputs(out: str, result) -> str:
         h.update(os.path.abspath(path).encode())
         with open(path, "rb") as fh:
             h.update(fh.read())
-    with open(os.path.join(out, "manifest.json"), "rb") as fh:
-        h.update(fh.read())
+    import json
+
+    with open(os.path.join(out, "manifest.json"), encoding="utf-8") as fh:
+        doc = json.load(fh)
+
+    def steady(v):   # a part's "status" (built / up to date) does not change the page
+        if isinstance(v, dict):
+            return {k: steady(x) for k, x in v.items() if k != "status"}
+        if isinstance(v, list):
+            return [steady(x) for x in v]
+        return v
+    h.update(json.dumps(steady(doc), sort_keys=True).encode())
     return h.hexdigest()
 
 
