@@ -169,3 +169,18 @@ def test_demo_report_ids_are_unique(tmp_path):
     assert len(ids) >= 6 and len(ids) == len(set(ids))
     for ref in re.findall(r'href="#([^"]+)"', html):
         assert ref in ids
+
+
+def test_the_builds_picture_of_a_part_is_the_view_of_its_file(tmp_path):
+    # the build's workers draw each part's shaded view from the STL they just wrote and
+    # re-read; the page embeds it: it must be the very picture drawn from that file
+    from gen import api
+    from gen.build.export import export_part
+    from gen.export.report_parts import shaded_png
+
+    part = api.make("spur_gear", name="pic", module=1, teeth=14, face_width=4, bore=3)
+    oc = export_part(part, str(tmp_path), ("stl",), {"pictures": True})
+    assert oc.ok and oc.extra.get("picture")
+    assert oc.extra["picture"] == shaded_png(str(tmp_path / "pic.stl"), part.role.value)
+    plain = export_part(part, str(tmp_path), ("stl",))
+    assert "picture" not in plain.extra        # only when asked (catalogues beyond 40 parts)

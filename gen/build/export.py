@@ -65,6 +65,17 @@ def make_solid(part):
     return solid(part.shape)
 
 
+def _picture(part, stl_path: str) -> bytes | None:
+    """The report's shaded view of the STL just written and re-read (drawn here, in the
+    worker, so that the report only embeds it); None if it cannot be drawn."""
+    from gen.export.report_parts import shaded_png
+
+    try:
+        return shaded_png(stl_path, part.role.value)
+    except Exception:   # the page then draws it from the file itself
+        return None
+
+
 def export_part(part, out: str, formats, options=None) -> PartOutcome:
     """Triangulate, re-measure, then write the part's files. Raises nothing: failures are
     findings of the outcome."""
@@ -97,6 +108,8 @@ def export_part(part, out: str, formats, options=None) -> PartOutcome:
                 continue
             outcome.files[fmt] = file_info(path, size)
         outcome.findings += made.notes
+        if made.options.get("pictures") and "stl" in outcome.files:
+            outcome.extra["picture"] = _picture(part, os.path.join(out, outcome.files["stl"]["path"]))
     except PitchlineError as exc:
         outcome.ok, outcome.status = False, "failed"
         outcome.findings.append(Finding(ERROR, "export", str(exc), part.name, "", scope="part"))

@@ -110,6 +110,7 @@ def run(args) -> int:
         print("nothing was written", file=sys.stderr)
         return 1
     from gen.build.manifest import project_root
+    from gen.export.report_build import MAX_SHADED
 
     prepare_out(args.out)
     stale = None if args.force else manifest_problem(args.out)
@@ -119,7 +120,9 @@ def run(args) -> int:
     report = build(result, args.out, formats, force=args.force or bool(stale), jobs=args.jobs,
                    progress=Progress(len(result.models)), plate=plate,
                    executor=args.executor, scheduler=args.scheduler,
-                   options={"dxf_curves": args.dxf_curves}, root=project_root(args.paths))
+                   options={"dxf_curves": args.dxf_curves,
+                            "pictures": len(result.models) <= MAX_SHADED},
+                   root=project_root(args.paths))
     plate_oc = report.plate
     if plate_oc is not None and not plate_oc.ok:
         print_findings(plate_oc.findings)

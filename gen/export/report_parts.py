@@ -129,7 +129,9 @@ def part_card(part, outcome=None, out_dir=None) -> str:
     stl = files.get("stl", {}).get("path") if files else None
     stl_path = os.path.join(out_dir, stl) if stl and out_dir else None
     if stl_path and os.path.isfile(stl_path):
-        pic = png_img(shaded_png(stl_path, role), f"shaded view of {part.name} from {stl}")
+        data = (outcome.extra.get("picture") if outcome is not None else None) or \
+            shaded_png(stl_path, role)   # drawn by the build from this file, or now
+        pic = png_img(data, f"shaded view of {part.name} from {stl}")
         caption = f"shaded from {escape(stl)} as written"
     else:
         pic = outline_svg(part, aid + "-outline")
