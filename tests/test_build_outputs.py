@@ -60,6 +60,12 @@ def test_parts_that_need_two_plates_get_two_plates(project, tmp_path):
         reps = check_written(os.path.join(out, p["path"]), "3mf", len(p["parts"]))
         assert all(r.ok for r in reps)
     assert not os.path.exists(os.path.join(out, "plate.3mf"))
+    # nothing changed: the plates are kept as written (not packed and written again)
+    stamps = {p["path"]: os.stat(os.path.join(out, p["path"])).st_mtime_ns for p in plates}
+    assert main(["build", str(project), "--out", out, "--format", "stl,3mf",
+                 "--plate", "40x40"]) == 0
+    assert _manifest(out)["plates"] == plates
+    assert {p: os.stat(os.path.join(out, p)).st_mtime_ns for p in stamps} == stamps
     # a plate no part fits on: exit 1, and no plate of the earlier build is left behind
     assert main(["build", str(project), "--out", out, "--format", "stl,3mf",
                  "--plate", "15x15"]) == 1

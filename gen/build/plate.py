@@ -20,14 +20,43 @@ PLATE_FILE = "plate_{}.3mf"
 PLATE_RE = re.compile(r"^plate_\d+$")
 
 
-def export_plate(result, out, report, plate) -> None:
+def _earlier_plates(earlier, names, plate, out) -> list | None:
+    """The earlier build's plates when they hold exactly ``names`` on plates of the same size
+    and every plate file is still there unchanged (size and SHA-256); else None."""
+    from gen.build.cache import sha256_file
+
+    if not isinstance(earlier, list) or not earlier:
+        return None
+    held = sorted(n for p in earlier if isinstance(p, dict) for n in p.get("parts", []))
+    if held != sorted(names):
+        return None
+    for p in earlier:
+        path = os.path.join(out, str(p.get("path", "")))
+        if p.get("plate_mm") != [float(plate[0]), float(plate[1])] or \
+                not os.path.isfile(path) or os.path.getsize(path) != p.get("bytes") or \
+                sha256_file(path) != p.get("sha256"):
+            return None
+    return earlier
+
+
+def export_plate(result, out, report, plate, earlier=None) -> None:
     """Pack the parts' meshes (re-read from their written 3MF files) onto plates of ``plate``
     = (width, depth) mm; sets ``report.plate`` (an outcome whose ``extra['plates']`` lists the
-    plate files and the parts on each)."""
+    plate files and the parts on each). ``earlier``: the previous manifest's plates, kept as
+    they are when every part on them is up to date (the packing depends on nothing else)."""
     from gen.export.threemf import read_3mf, write_3mf
     from gen.triangles.plate import arrange_plates
 
     oc = PartOutcome("plate", True)
+    with_3mf = [n for n in sorted(result.models) if report.outcomes.get(n) is not None
+                and report.outcomes[n].ok and "3mf" in report.outcomes[n].files]
+    if with_3mf and all(report.outcomes[n].status == "up_to_date" for n in with_3mf):
+        kept = _earlier_plates(earlier, with_3mf, plate, out)
+        if kept is not None:
+            oc.status, oc.files = "up_to_date", {p["path"]: p for p in kept}
+            oc.extra["plates"] = kept
+            report.plate = oc
+            return
     items = []
     for name in sorted(result.models):
         part_oc = report.outcomes.get(name)

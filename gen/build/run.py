@@ -215,7 +215,8 @@ def build(result, out: str, formats, *, force: bool = False, jobs: int = 1,
         if not oc.ok:
             _keep_earlier(oc, earlier.get(name, {}), out, formats)
     if "3mf" in formats and plate:
-        export_plate(result, out, report, plate)
+        export_plate(result, out, report, plate,
+                     earlier=None if force else (prev_doc or {}).get("plates"))
     plates = report.plate.extra.get("plates", []) if report.plate else []
     root = root if root is not None else project_root(result.project.files or ["."])
     path = write_manifest(out, result, report.outcomes, formats, root=root, plates=plates,
