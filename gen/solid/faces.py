@@ -159,7 +159,14 @@ def level_rows(bld: Builder, tr: Track, levels) -> dict:
         for i, nb in enumerate(tr.curves):
             x, y = place(nb.poles, c, s, t)
             x, y = x[:, 0], y[:, 0]
-            curve = bld.curve3d(nb, x, y, z)
+            if nb.deg == 1 and len(x) == 2 and nb.weights is None:   # a line, parameter =
+                o = bld.o                                             # length (as its knots)
+                d = math.hypot(x[1] - x[0], y[1] - y[0])
+                curve = o.Geom_Line(o.gp_Pnt(float(x[0]), float(y[0]), float(z)),
+                                    o.gp_Dir(float((x[1] - x[0]) / d), float((y[1] - y[0]) / d),
+                                             0.0))
+            else:
+                curve = bld.curve3d(nb, x, y, z)
             e = bld.edge(curve, verts[i], verts[(i + 1) % len(verts)], nb.knots[0], nb.knots[-1])
             row.append((e, x, y, verts[i], curve))
         per[k] = row

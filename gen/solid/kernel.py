@@ -23,7 +23,7 @@ SPLINE_FIT = 1e-6
 
 
 _OCC_NAMES = {
-    "OCP.BRep": ("BRep_Builder",),
+    "OCP.BRep": ("BRep_Builder", "BRep_Tool"),
     "OCP.BRepAlgoAPI": ("BRepAlgoAPI_Cut", "BRepAlgoAPI_Fuse"),
     "OCP.BRepCheck": ("BRepCheck_Analyzer",),
     "OCP.BRepPrimAPI": ("BRepPrimAPI_MakePrism",),
