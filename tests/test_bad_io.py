@@ -156,7 +156,7 @@ def test_step_writer_failure_names_a_full_device(tmp_path, monkeypatch):
 
     monkeypatch.setattr(os, "statvfs", lambda p: Stat())
     with pytest.raises(ExportError, match="no space left on the device"):
-        step._through_file(str(tmp_path), lambda tmp: False, "p")
+        step.through_file(str(tmp_path), lambda tmp: False, "p")
     assert os.listdir(tmp_path) == []
 
 

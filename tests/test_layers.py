@@ -33,7 +33,7 @@ DECLARED = {
     # the build path uses OCP only; cadquery (seconds and hundreds of MiB to import) is for
     # the Python API's users: imported in gen/api.py (to_cadquery) and in no package
     "cadquery": set(),
-    "OCP": {"solid", "export/step.py"},
+    "OCP": {"solid", "export/step.py", "export/shape_analysis.py", "export/step_assembly.py"},
     "trimesh": {"triangles", "export/stl.py", "export/threemf.py", "export/report_raster.py"},
     "manifold3d": {"triangles"},
     "shapely": {"validate"},

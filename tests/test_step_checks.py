@@ -12,8 +12,8 @@ import pytest
 cq = pytest.importorskip("cadquery")
 
 from gen.errors import ExportError  # noqa: E402
-from gen.export.step import (analyse_shape, read_step_shape, write_step,  # noqa: E402
-                             write_step_assembly)
+from gen.export.step import analyse_shape, read_step_shape, write_step  # noqa: E402
+from gen.export.step_assembly import write_step_assembly  # noqa: E402
 from gen.tolerances import TOL  # noqa: E402
 
 

@@ -18,7 +18,8 @@ def assembly_items(asm, models, out: str | None = None):
 
     A solid already exported this build is read back from its STEP file rather than rebuilt
     (the same bytes, so the same geometry); parts with equal parameters share one solid here,
-    and :func:`gen.export.step.write_step_assembly` gives each placement its own product."""
+    and :func:`gen.export.step_assembly.write_step_assembly` gives each placement its own
+    product."""
     from gen.export.step import step_solids
     from gen.solid import solid
 
@@ -37,7 +38,7 @@ def assembly_items(asm, models, out: str | None = None):
 
 def assembly_step(asm, models, path: str, out: str | None = None) -> int:
     """Write one assembly's STEP (named, placed solids); returns the bytes written."""
-    from gen.export.step import write_step_assembly
+    from gen.export.step_assembly import write_step_assembly
 
     return write_step_assembly(assembly_items(asm, models, out), path, asm.name)
 
@@ -49,7 +50,7 @@ def _phash(asm) -> str:
 
 def export_assembly(asm, models, out) -> PartOutcome:
     """Write one assembly's STEP; failures become an error finding of the outcome."""
-    from gen.export.step import write_step_assembly
+    from gen.export.step_assembly import write_step_assembly
 
     path = os.path.join(out, asm.name + ".step")
     t0 = time.perf_counter()

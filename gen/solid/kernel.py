@@ -58,22 +58,11 @@ _BUILD_MODULES = (
 @lru_cache(maxsize=None)
 def occ() -> SimpleNamespace:
     """The OCP classes used here, imported on first use (the kernel loads in ~0.5–3 s)."""
-    quiet_kernel()
     ns = {}
     for module, names in _OCC_NAMES.items():
         mod = importlib.import_module(module)
         ns.update({n: getattr(mod, n) for n in names})
     return SimpleNamespace(**ns)
-
-
-@lru_cache(maxsize=None)
-def quiet_kernel() -> None:
-    """Let the kernel's default messenger print failures only: its readers and writers
-    otherwise print transfer statistics on standard output, between the build's own lines."""
-    from OCP.Message import Message, Message_Gravity
-
-    for printer in Message.DefaultMessenger_s().Printers():
-        printer.SetTraceLevel(Message_Gravity.Message_Fail)
 
 
 def preload_kernel() -> None:
