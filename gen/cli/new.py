@@ -177,32 +177,34 @@ def belt_drive_text(name: str) -> str:
     return "\n".join(lines) + "\n"
 
 
-def differential_text(name: str) -> str:
-    """A bevel-gear differential assembly (its parts are made from these values)."""
+def _assembly_text(kind: str, name: str, intro, example, **opts) -> str:
+    """A starter file for an assembly of ``kind``: its keys with the example values."""
     import importlib
 
     from gen.assemblies import ASSEMBLY_KINDS
 
-    mod = importlib.import_module(f"gen.assemblies.{ASSEMBLY_KINDS['bevel_differential']}")
-    lines = ["# pitchline starter file for a bevel-gear differential: two facing input gears,",
-             "# one or two output gears on a carrier."] + HEAD + [
-        "assemblies:", f"  {name}:", "    kind: bevel_differential"]
-    lines += key_lines(mod.KEYS, DIFFERENTIAL_EXAMPLE, "    ", skip=("kind",), bevel=True)
+    mod = importlib.import_module(f"gen.assemblies.{ASSEMBLY_KINDS[kind]}")
+    lines = list(intro) + HEAD + ["assemblies:", f"  {name}:", f"    kind: {kind}"]
+    lines += key_lines(mod.KEYS, example(mod), "    ", skip=("kind",), **opts)
     return "\n".join(lines) + "\n"
+
+
+def differential_text(name: str) -> str:
+    """A bevel-gear differential assembly (its parts are made from these values)."""
+    return _assembly_text(
+        "bevel_differential", name,
+        ["# pitchline starter file for a bevel-gear differential: two facing input gears,",
+         "# one or two output gears on a carrier."],
+        lambda mod: DIFFERENTIAL_EXAMPLE, bevel=True)
 
 
 def planetary_text(name: str) -> str:
     """A planetary stage assembly (sun, planets, ring and carrier are made from these values)."""
-    import importlib
-
-    from gen.assemblies import ASSEMBLY_KINDS
-
-    mod = importlib.import_module(f"gen.assemblies.{ASSEMBLY_KINDS['planetary']}")
-    lines = ["# pitchline starter file for a planetary stage: a sun, planets on a carrier and",
-             "# an internal ring; one member held, one driven, the third the output."] + HEAD + [
-        "assemblies:", f"  {name}:", "    kind: planetary"]
-    lines += key_lines(mod.KEYS, getattr(mod, "EXAMPLE", {}), "    ", skip=("kind",))
-    return "\n".join(lines) + "\n"
+    return _assembly_text(
+        "planetary", name,
+        ["# pitchline starter file for a planetary stage: a sun, planets on a carrier and",
+         "# an internal ring; one member held, one driven, the third the output."],
+        lambda mod: getattr(mod, "EXAMPLE", {}))
 
 
 def drivetrain_text(name: str) -> str:
