@@ -20,6 +20,10 @@ from gen.findings import ERROR, WARNING, Finding, has_errors
 VOLUME_REL = 0.01
 
 
+#: (solid, volume mm³) of the last solid measured: equal parts of a group share the solid
+_LAST_VOLUME: list = []
+
+
 class Made:
     """What the writers of one part share: its checked triangles and (on first use) its solid.
 
@@ -40,7 +44,11 @@ class Made:
             from gen.export.step import shape_volume
 
             s = make_solid(self.part)   # looked up now: a group of equal parts shares one
-            vol = shape_volume(s)
+            if _LAST_VOLUME and _LAST_VOLUME[0] is s:
+                vol = _LAST_VOLUME[1]
+            else:
+                vol = shape_volume(s)
+                _LAST_VOLUME[:] = [s, vol]
             tri = float(self.triangles.volume)
             if abs(vol - tri) > VOLUME_REL * abs(vol):
                 raise PitchlineError(f"solid volume {vol:.3f} mm³ and triangle volume "
