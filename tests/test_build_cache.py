@@ -100,3 +100,31 @@ def test_help_loads_neither_numpy_nor_yaml():
     r = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, env=env)
     assert r.returncode == 0 and r.stdout.strip().splitlines()[-1] == "[]"
     assert "build" in r.stdout and "ratio" in r.stdout
+
+
+def _bevel(z):
+    """A model whose cost is 18 per tooth (the straight-bevel rule of geometry_cost)."""
+    return SimpleNamespace(shape=SimpleNamespace(builder="apex_ruled", sizes=SimpleNamespace(z=z)))
+
+
+def test_schedule_runs_longest_first_and_an_assemblys_parts_ahead():
+    models = {"big": _bevel(45), "small": _bevel(10), "in_1": _bevel(20), "in_2": _bevel(20),
+              "out": _bevel(15)}
+    groups = [["big"], ["small"], ["in_1", "in_2"], ["out"]]
+    # without assemblies: cost × group size, longest first (45·18 > 2·20·18 > 15·18 > 10·18)
+    assert cache.schedule(groups, models) == [["big"], ["in_1", "in_2"], ["out"], ["small"]]
+    # an assembly placing in_1, in_2 and out: its parts count its whole cost (they go first,
+    # so that its STEP overlaps the remaining parts)
+    asm = SimpleNamespace(poses={"in_1": None, "in_2": None, "out": None})
+    order = cache.schedule(groups, models, [asm])
+    assert order[:2] == [["in_1", "in_2"], ["out"]] and order[2:] == [["big"], ["small"]]
+
+
+def test_a_twist_raises_the_cost():
+    from gen.geometry.body import Body, Prism
+    from gen.geometry.section import Arc, Loop, Section
+
+    disc = Section(Loop((Arc((0.0, 0.0), 10.0, 0.0, 2 * math.pi),)), ())
+    flat = SimpleNamespace(shape=Body((Prism(disc, 0.0, 10.0),)))
+    turned = SimpleNamespace(shape=Body((Prism(disc, 0.0, 10.0, twist=0.5),)))
+    assert cache.geometry_cost(turned) > 3 * cache.geometry_cost(flat) > 0

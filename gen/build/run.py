@@ -7,7 +7,7 @@
   ``force`` rebuilds everything.
 * Parts with the same parameter hash have the same geometry: their triangles and solid are
   made once (one job) and written under each name.
-* Jobs run longest first (:func:`gen.build.cache.geometry_cost`); ``jobs > 1`` exports them
+* Jobs run longest first, the parts of an assembly ahead (:func:`gen.build.cache.schedule`); ``jobs > 1`` exports them
   in forked worker processes; ``executor="dask"`` sends them to a Dask cluster
   (:mod:`gen.build.cluster`).
 * Every file is written atomically and checked as written before it replaces an earlier one;
@@ -26,8 +26,8 @@ from dataclasses import dataclass, field
 
 from gen.build import export as _export
 from gen.build.assembly import export_assemblies, plan_assemblies
-from gen.build.cache import (expected_formats, geometry_cost, params_hash, read_manifest,
-                             read_manifest_doc, sha256_file, up_to_date)
+from gen.build.cache import (expected_formats, params_hash, read_manifest, read_manifest_doc,
+                             schedule, sha256_file, up_to_date)
 from gen.build.clean import remove_stale
 from gen.build.export import export_part
 from gen.build.manifest import project_root, write_manifest
@@ -177,8 +177,7 @@ def build(result, out: str, formats, *, force: bool = False, jobs: int = 1,
                                                 old.get("mass_properties", {}))
         else:
             groups.setdefault(phash, []).append(name)
-    jobs_list = sorted(groups.values(),   # longest first; ties by name for a stable order
-                       key=lambda g: (-geometry_cost(models[g[0]]) * len(g), g[0]))
+    jobs_list = schedule(list(groups.values()), models, result.assemblies)
     progress = progress or Progress(len(models), enabled=False)
     for name in sorted(report.outcomes):
         progress.step(report.outcomes[name])

@@ -53,7 +53,10 @@ def _assembly_document(items, name: str):
 
 
 def _write_document(doc, path: str) -> bool:
-    """Write an XCAF document as STEP (AP214, mm, names on, curves on faces written)."""
+    """Write an XCAF document as STEP (AP214, mm, names on), edges as 3-D curves only, like
+    every part's STEP (:func:`gen.export.step.step_bytes`): the curves on faces doubled the
+    files (the demo's planetary stage 13.8 → 9.5 MB, the bevel differential 6.6 → 2.4 MB)
+    and the reader rebuilds them anyway."""
     from OCP.IFSelect import IFSelect_RetDone
     from OCP.Interface import Interface_Static
     from OCP.STEPCAFControl import STEPCAFControl_Writer
@@ -66,7 +69,7 @@ def _write_document(doc, path: str) -> bool:
     writer.SetLayerMode(True)
     writer.SetNameMode(True)
     Interface_Static.SetCVal_s("write.step.schema", "AP214IS")
-    Interface_Static.SetIVal_s("write.surfacecurve.mode", 1)
+    Interface_Static.SetIVal_s("write.surfacecurve.mode", 0)
     Interface_Static.SetIVal_s("write.precision.mode", 0)
     Interface_Static.SetIVal_s("write.stepcaf.subshapes.name", 1)
     Interface_Static.SetCVal_s("xstep.cascade.unit", "MM")
