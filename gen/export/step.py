@@ -15,6 +15,7 @@ from functools import lru_cache
 from gen.errors import ExportError
 from gen.export.atomic import folder_problem, temp_path, write_atomic
 from gen.export.shape_analysis import analyse_shape, shape_volume, tolerance_check  # noqa: F401
+from gen.export.step_share import share_geometry
 
 _STAMP = re.compile(rb"FILE_NAME\('([^']*)','[^']*'")
 # the writer numbers products per session ('name 2', 'name 4' …): drop the counter
@@ -36,7 +37,8 @@ def quiet_kernel() -> None:
 
 
 def step_bytes(shape, name: str, workdir: str) -> bytes:
-    """STEP text of ``shape`` with the product named ``name`` and a fixed time stamp."""
+    """STEP text of ``shape`` with the product named ``name``, a fixed time stamp, and one
+    instance per geometric value (:func:`gen.export.step_share.share_geometry`)."""
     quiet_kernel()
     from OCP.IFSelect import IFSelect_RetDone
     from OCP.Interface import Interface_Static
@@ -53,7 +55,7 @@ def step_bytes(shape, name: str, workdir: str) -> bytes:
         if writer.Transfer(getattr(s, "wrapped", s), STEPControl_AsIs) != IFSelect_RetDone:
             raise ExportError(f"STEP transfer failed for {name}")
     data = through_file(workdir, lambda tmp: writer.Write(tmp) == IFSelect_RetDone, name)
-    return normalise(data, name)
+    return share_geometry(normalise(data, name))
 
 
 def through_file(workdir: str, write, name: str) -> bytes:

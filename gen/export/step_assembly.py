@@ -8,6 +8,7 @@ import os
 from gen.export.atomic import write_atomic
 from gen.export.shape_analysis import shape_volume
 from gen.export.step import normalise, quiet_kernel, step_verifier, through_file
+from gen.export.step_share import share_geometry
 
 
 def _assembly_document(items, name: str):
@@ -106,6 +107,6 @@ def write_step_assembly(items, path: str, name: str) -> int:
     doc = _assembly_document(placed, name)
     data = through_file(os.path.dirname(os.path.abspath(path)),
                          lambda tmp: _write_document(doc, tmp), name)
-    data = normalise(data, name)
+    data = share_geometry(normalise(data, name))
     write_atomic(path, data, step_verifier(name, len(items), volume))
     return len(data)

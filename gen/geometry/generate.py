@@ -154,6 +154,7 @@ class Flank:
     r_root: float
     r_tip: float
     r_junction: float
+    cutter: Cutter | None = None   # the cutter that generated it (for exact re-evaluation)
 
     def xy(self, sign: float = 1.0) -> np.ndarray:
         """Flank points for the tooth centred on +X, on its +ψ (sign=1) or −ψ side."""
@@ -218,7 +219,8 @@ def generate_flank(z: int, rp: float, cutter: Cutter, r_tip: float,
     psi, s = _psi(cutter, rp, z, r)
     piece = np.where(r <= r_j, FILLET, FLANK)
     piece[0] = TIP
-    return Flank(z=z, rp=rp, r=r, psi=psi, piece=piece, r_root=r_root, r_tip=r_tip, r_junction=r_j)
+    return Flank(z=z, rp=rp, r=r, psi=psi, piece=piece, r_root=r_root, r_tip=r_tip, r_junction=r_j,
+                 cutter=cutter)
 
 
 def psi_exact(cutter: Cutter, rp: float, z: int, r) -> np.ndarray:

@@ -14,10 +14,45 @@ import numpy as np
 
 
 @dataclass(frozen=True, eq=False)
+class Exact:
+    """The exact curve a :class:`Spline`'s points were sampled from, for the solid layer's fit.
+
+    ``source(t)`` gives points (n, 2) of the curve in its own frame for parameters t in
+    [0, 1] (a picklable callable, equal for equal curves); the curve is then turned by
+    ``angle`` (rad) about the origin and moved by ``shift``; ``flip``: the spline runs from
+    t = 1 to t = 0.
+    """
+
+    source: object
+    angle: float = 0.0
+    shift: tuple = (0.0, 0.0)
+    flip: bool = False
+
+    def at(self, t) -> np.ndarray:
+        t = np.asarray(t, dtype=float)
+        p = np.asarray(self.source(1.0 - t if self.flip else t), dtype=float)
+        c, s = math.cos(self.angle), math.sin(self.angle)
+        return np.column_stack([c * p[:, 0] - s * p[:, 1] + self.shift[0],
+                                s * p[:, 0] + c * p[:, 1] + self.shift[1]])
+
+    def moved(self, angle: float, dx: float) -> "Exact":
+        """This curve turned by ``angle`` about the origin, then moved ``dx`` along +X."""
+        c, s = math.cos(angle), math.sin(angle)
+        x, y = self.shift
+        return Exact(self.source, self.angle + angle, (c * x - s * y + dx, s * x + c * y),
+                     self.flip)
+
+    def reversed(self) -> "Exact":
+        return Exact(self.source, self.angle, self.shift, not self.flip)
+
+
+@dataclass(frozen=True, eq=False)
 class Spline:
-    """Interpolating curve through ``points`` (n, 2); a polyline in the mesh layer."""
+    """Interpolating curve through ``points`` (n, 2); a polyline in the mesh layer.
+    ``exact``: the curve the points were sampled from, when known (:class:`Exact`)."""
 
     points: np.ndarray
+    exact: Exact | None = None
 
     @property
     def start(self):
@@ -160,7 +195,8 @@ def _move_curve(c, angle: float, dx: float):
 
     if isinstance(c, Spline):
         p = c.points
-        return Spline(np.column_stack([co * p[:, 0] - si * p[:, 1] + dx, si * p[:, 0] + co * p[:, 1]]))
+        return Spline(np.column_stack([co * p[:, 0] - si * p[:, 1] + dx, si * p[:, 0] + co * p[:, 1]]),
+                      None if c.exact is None else c.exact.moved(angle, dx))
     if isinstance(c, Arc):
         return Arc(pt(c.center), c.radius, c.a0 + angle, c.a1 + angle)
     return Line(pt(c.p0), pt(c.p1))

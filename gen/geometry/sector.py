@@ -34,7 +34,8 @@ import numpy as np
 from gen.errors import GeometryError
 from gen.geometry.features import Bore
 from gen.geometry.generate import Flank
-from gen.geometry.section import Arc, Line, Loop, Section, Spline, circle
+from gen.geometry.gear_outline import flank_pieces, flank_splines
+from gen.geometry.section import Arc, Line, Loop, Section, circle
 
 
 @dataclass(frozen=True)
@@ -130,28 +131,19 @@ class SectorArm:
     angle: float | None = None
 
 
-def _polar(r, ang):
-    return np.column_stack([r * np.cos(ang), r * np.sin(ang)])
-
-
 def _pt(r, a):
     return (r * math.cos(a), r * math.sin(a))
 
 
 def _teeth_curves(flank: Flank, angles: np.ndarray) -> list:
     """Tooth curves as in :func:`gen.geometry.gear_outline.gear_loop`, root arcs between."""
-    r, psi = flank.r, flank.psi
-    n_root = int(np.searchsorted(r, flank.r_junction, side="right"))
-    pieces = [slice(0, n_root)]
-    if n_root < len(r):
-        pieces.append(slice(n_root - 1, len(r)))
+    psi = flank.psi
+    pieces = flank_pieces(flank)
     curves = []
     for k, c in enumerate(angles):
-        for sl in pieces:
-            curves.append(Spline(_polar(r[sl], c - psi[sl])))
+        curves.extend(flank_splines(flank, float(c), pieces, -1.0))
         curves.append(Arc((0.0, 0.0), flank.r_tip, c - psi[-1], c + psi[-1]))
-        for sl in reversed(pieces):
-            curves.append(Spline(_polar(r[sl][::-1], c + psi[sl][::-1])))
+        curves.extend(flank_splines(flank, float(c), pieces, 1.0))
         if k + 1 < len(angles) and angles[k + 1] - psi[0] - (c + psi[0]) > 1e-9:
             curves.append(Arc((0.0, 0.0), flank.r_root, c + psi[0], angles[k + 1] - psi[0]))
     return curves

@@ -4,13 +4,22 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from functools import lru_cache
 
 import numpy as np
 
 from gen.errors import GeometryError
-from gen.geometry.section import Arc, Line, Loop, Spline, signed_area
+from gen.geometry.bspline_fit import fit_curve
+from gen.geometry.section import Arc, Exact, Line, Loop, Spline, signed_area
 
 from gen.solid.kernel import JUNCTION_GAP, KERNEL_TOL, SPLINE_FIT, occ
+
+#: largest distance (mm) of a section B-spline from the dense samples of the exact curve it
+#: is fitted to: under SPLINE_FIT, so that between two checked samples (EXACT_SAMPLES per
+#: curve, spans of the fit several samples long) the curve stays within SPLINE_FIT
+EXACT_FIT = 0.8 * SPLINE_FIT
+#: samples of an exact section curve checked by its fit
+EXACT_SAMPLES = 200
 
 @dataclass(eq=False)
 class Nurbs:
@@ -49,6 +58,41 @@ def spline_nurbs(points: np.ndarray) -> Nurbs:
     return Nurbs(c.Degree(), poles, None, knots, mults)
 
 
+def section_spline_nurbs(c: Spline) -> Nurbs:
+    """B-spline of a section spline: fitted to its exact curve when that is known
+    (:func:`exact_nurbs`), else to its samples (:func:`spline_nurbs`)."""
+    if c.exact is not None:
+        nb = exact_nurbs(c.exact)
+        if nb is not None:
+            p = np.asarray(c.points, dtype=float)
+            if max(np.hypot(*(nb.poles[0] - p[0])), np.hypot(*(nb.poles[-1] - p[-1]))) \
+                    <= JUNCTION_GAP:
+                nb.poles[0], nb.poles[-1] = p[0], p[-1]   # the spline's own ends, bit for bit
+                return nb
+    return spline_nurbs(c.points)
+
+
+def exact_nurbs(e: Exact) -> Nurbs | None:
+    """B-spline within :data:`EXACT_FIT` of the exact curve ``e`` (fitted once per curve
+    shape, then turned and moved into place); None when no fit reaches it."""
+    fit = _source_fit(e.source, e.flip)
+    if fit is None:
+        return None
+    c, s = math.cos(e.angle), math.sin(e.angle)
+    P = fit.poles
+    poles = np.column_stack([c * P[:, 0] - s * P[:, 1] + e.shift[0],
+                             s * P[:, 0] + c * P[:, 1] + e.shift[1]])
+    return Nurbs(fit.deg, poles, None, fit.knots.copy(), list(fit.mults))
+
+
+@lru_cache(maxsize=128)
+def _source_fit(source, flip: bool):
+    """:func:`gen.geometry.bspline_fit.fit_curve` of ``EXACT_SAMPLES`` points of the exact
+    curve in its own frame (the teeth of one gear share it)."""
+    pts = Exact(source, 0.0, (0.0, 0.0), flip).at(np.linspace(0.0, 1.0, EXACT_SAMPLES))
+    return fit_curve(pts, EXACT_FIT)
+
+
 def _arc_nurbs(a: Arc) -> Nurbs:
     """Rational quadratic arc: spans ≤ 90°, middle weight cos(Δ/2) (the standard conic form)."""
     span = a.a1 - a.a0
@@ -71,7 +115,7 @@ def _line_nurbs(seg: Line) -> Nurbs:
 
 def _reversed(c):
     if isinstance(c, Spline):
-        return Spline(np.asarray(c.points)[::-1])
+        return Spline(np.asarray(c.points)[::-1], None if c.exact is None else c.exact.reversed())
     if isinstance(c, Arc):
         return Arc(c.center, c.radius, c.a1, c.a0)
     return Line(c.p1, c.p0)
@@ -112,7 +156,7 @@ def loop_nurbs(loop: Loop, ccw: bool) -> list:
     out = []
     for c in oriented_curves(loop, ccw):
         if isinstance(c, Spline):
-            out.append(spline_nurbs(c.points))
+            out.append(section_spline_nurbs(c))
         elif isinstance(c, Arc):
             out.append(_arc_nurbs(c))
         else:

@@ -31,7 +31,7 @@ from gen.solid.faces import Builder, Track, lateral_shell
 from gen.solid.stack import stack_shell
 from gen.solid.kernel import HELIX_FIT, KERNEL_TOL  # noqa: F401  (HELIX_FIT re-exported)
 from gen.solid.kernel import as_solid, check_solid, occ
-from gen.solid.nurbs import loop_nurbs, oriented_curves, rotation_invariant, spline_nurbs
+from gen.solid.nurbs import loop_nurbs, oriented_curves, rotation_invariant, section_spline_nurbs
 
 
 def _curve_edge(bld: Builder, c, v0, v1, p0, p1, z: float):
@@ -50,7 +50,7 @@ def _curve_edge(bld: Builder, c, v0, v1, p0, p1, z: float):
                       o.gp_Dir(0.0, 0.0, sense), o.gp_Dir(1.0, 0.0, 0.0))
         g = o.Geom_Circle(ax, float(c.radius))
         return bld.edge(g, v0, v1, sense * c.a0, sense * c.a1)
-    nb = spline_nurbs(c.points)
+    nb = section_spline_nurbs(c)
     nb.poles[0], nb.poles[-1] = p0, p1
     return bld.edge(bld.curve3d(nb, nb.poles[:, 0], nb.poles[:, 1], z), v0, v1, nb.knots[0],
                     nb.knots[-1])
