@@ -41,9 +41,12 @@ import numpy as np
 from gen.errors import GeometryError
 from gen.geometry.body import Body, Prism, plan_cuts
 from gen.geometry.section import Arc, Line, Loop, Spline, signed_area
+from gen.triangles.twist_walls import chord_terms, column_counts, stage_walls, strip_steps
 
-#: share of the chordal tolerance spent on the section polygon (the rest on the twist)
+#: share of the chordal tolerance spent on the section polygon of a straight or sheared prism
 PROFILE_SHARE = 0.5
+#: the same for a twisted prism (the rest bounds the twist: :mod:`gen.triangles.twist_walls`)
+TWISTED_PROFILE_SHARE = 0.4
 
 
 # --------------------------------------------------------------------------- polygons
@@ -133,62 +136,64 @@ def loop_polygon(loop: Loop, tol: float, ccw: bool = True) -> np.ndarray:
     return poly
 
 
-# --------------------------------------------------------------------------- layers
-def twist_step(r_max: float, chord_max: float, tol: float) -> float:
-    """Largest layer turn δ (rad) with r δ²/8 + ℓ δ/4 ≤ tol (see the module docstring)."""
-    a, b = r_max / 8.0, chord_max / 4.0
-    if a <= 0.0:
-        return math.inf if b <= 0.0 else tol / b
-    return (-b + math.sqrt(b * b + 4.0 * a * tol)) / (2.0 * a)
-
-
-def layer_heights(prism: Prism, r_max: float, chord_max: float, tol: float) -> np.ndarray:
-    """Heights of the mesh layers of a prism (z0 … z1), including every stage end."""
-    zs = [prism.z0]
-    for za, zb, _ in prism.stages():
-        n = 1
-        if prism.twist != 0.0:
-            delta = twist_step(r_max, chord_max, tol)
-            n = max(1, int(math.ceil(abs(prism.twist) * (zb - za) / delta - 1e-12)))
-        zs.extend(np.linspace(za, zb, n + 1)[1:])
-    return np.array(zs)
-
-
 # --------------------------------------------------------------------------- assembly
-def _walls(base: int, n_vert: int, n_layers: int) -> np.ndarray:
-    """Quads between layers of one loop (vertex index = base + layer·n_vert + i), outward."""
-    i = np.arange(n_vert)
-    j = (i + 1) % n_vert
+def _loop_walls(prism: Prism, poly: np.ndarray, moving: bool, tol_t: float, base: int):
+    """(vertices (n, 3), wall triangles, bottom indices, top indices) of one loop: a column of
+    vertices per polygon vertex, with its own steps per stage (:mod:`twist_walls`)."""
+    n = len(poly)
+    stages = prism.stages() if moving else ((prism.z0, prism.z1, 1.0),)
+    counts, leads = [], []
+    for za, zb, sign in stages:
+        theta = abs(prism.twist) * (zb - za) if moving else 0.0
+        if theta > 0.0:
+            counts.append(column_counts(*strip_steps(poly, theta, tol_t), theta))
+            _, _, _, c_sign = chord_terms(poly)
+            leads.append(c_sign * sign * prism.twist > 0.0)
+        else:
+            counts.append(np.ones(n, dtype=np.int64))
+            leads.append(np.zeros(n, dtype=bool))
+    levels = 1 + np.sum(counts, axis=0)                   # vertices per column
+    offset = base + np.concatenate([[0], np.cumsum(levels)[:-1]])
+    cols, zs, lvls = [np.arange(n)], [np.full(n, float(prism.z0))], [np.zeros(n, np.int64)]
+    start = np.ones(n, dtype=np.int64)                    # level of each stage's first step
     tris = []
-    for k in range(n_layers - 1):
-        b0, t0 = base + k * n_vert, base + (k + 1) * n_vert
-        tris.append(np.column_stack([b0 + i, b0 + j, t0 + j]))
-        tris.append(np.column_stack([b0 + i, t0 + j, t0 + i]))
-    return np.concatenate(tris)
+    for (za, zb, _), cnt, lead in zip(stages, counts, leads):
+        tris.append(stage_walls(offset + start - 1, cnt, lead))
+        col = np.repeat(np.arange(n), cnt)
+        m = np.arange(len(col)) - np.repeat(np.cumsum(cnt) - cnt, cnt) + 1
+        zs.append(np.where(m == cnt[col], zb, za + (zb - za) * m / cnt[col]))
+        cols.append(col)
+        lvls.append(start[col] + m - 1)
+        start = start + cnt
+    col, z, lvl = (np.concatenate(a) for a in (cols, zs, lvls))
+    order = np.lexsort((lvl, col))
+    col, z = col[order], z[order]
+    if moving:
+        th, s = prism.motion(z)
+        c, sn = np.cos(th), np.sin(th)
+        p = poly[col]
+        xy = np.column_stack([c * p[:, 0] - sn * p[:, 1] + s, sn * p[:, 0] + c * p[:, 1]])
+    else:
+        xy = poly[col]
+    verts = np.column_stack([xy, z])
+    return verts, np.concatenate(tris), offset, offset + levels - 1
 
 
 def _prism_arrays(prism: Prism, tol: float, extra_holes=()):
     """(vertices (n, 3), triangles (m, 3)) of one prism with optional straight holes."""
-    tol_p = PROFILE_SHARE * tol
+    tol_p = (PROFILE_SHARE if prism.twist == 0.0 else TWISTED_PROFILE_SHARE) * tol
     loops = [(loop_polygon(prism.section.outer, tol_p, True), True)]
     loops += [(loop_polygon(h, tol_p, False), True) for h in prism.section.holes]
     loops += [(loop_polygon(h, tol_p, False), False) for h in extra_holes]
-    moving = [p for p, mv in loops if mv]
-    r_max = max(float(np.max(np.hypot(p[:, 0], p[:, 1]))) for p in moving)
-    chord = max(float(np.max(np.hypot(*(p - np.roll(p, 1, axis=0)).T))) for p in moving)
-    zs = layer_heights(prism, r_max, chord, tol - tol_p)
     verts, tris, base = [], [], 0
     bottom, top = [], []  # global indices of each loop's first / last layer
     for poly, mv in loops:
-        heights = zs if mv else np.array([prism.z0, prism.z1])
-        n = len(poly)
-        for z in heights:
-            xy = prism.place(poly, z) if mv else poly
-            verts.append(np.column_stack([xy, np.full(n, z)]))
-        tris.append(_walls(base, n, len(heights)))
-        bottom.append(base + np.arange(n))
-        top.append(base + (len(heights) - 1) * n + np.arange(n))
-        base += n * len(heights)
+        v, t, b, e = _loop_walls(prism, poly, mv, tol - tol_p, base)
+        verts.append(v)
+        tris.append(t)
+        bottom.append(b)
+        top.append(e)
+        base += len(v)
     polys = [p for p, _ in loops]
     cap = _triangulate(polys)
     first = np.concatenate(bottom)
