@@ -23,7 +23,8 @@ from gen.geometry.gear_outline import gear_loop
 from gen.geometry.generate import generate_flank
 from gen.geometry.rack_outline import rack_loop, rack_sizes
 from gen.geometry.section import Arc, Line, Loop, Section, circle, signed_area
-from gen.triangles.prism import body_triangles, loop_polygon, prism_triangles
+from gen.triangles.prism import (TWISTED_PROFILE_SHARE, body_triangles, loop_polygon,
+                                 prism_triangles)
 from gen.triangles.twist_walls import column_counts, strip_pattern, strip_steps
 from gen.validate import helix
 
@@ -258,7 +259,7 @@ def test_chevron_apex_is_a_layer_of_every_column(gear20):
     loop, sz = gear20
     pr = Prism(Section(loop), 0.0, 20.0, twist=gear_twist(BETA, sz.rp), chevron=True)
     m = prism_triangles(pr, tol=0.01)
-    n = len(loop_polygon(loop, 0.004))  # the twisted prism's polygon share (0.4 × 0.01)
+    n = len(loop_polygon(loop, TWISTED_PROFILE_SHARE * 0.01))  # the polygon of a twisted prism
     assert np.count_nonzero(np.isclose(m.vertices[:, 2], 10.0, atol=1e-12)) == n
 
 

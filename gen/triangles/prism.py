@@ -1,35 +1,28 @@
 """Triangle meshes of straight, twisted, sheared and chevron prisms, without the CAD kernel.
 
 Vertices are placed directly: each section loop becomes a polygon (arcs at a chordal
-tolerance, spline samples thinned to it), copied to a stack of layers and moved by the
-prism's motion (:meth:`gen.geometry.body.Prism.place`); neighbouring layers are joined by
-quads split in two, and the two caps are triangulated once by ``manifold3d.triangulate``
-(reused at the top when the whole section moves rigidly). The mesh is closed by
-construction. Straight through-cuts placed by :func:`gen.geometry.body.plan_cuts` become
-straight hole walls; unions and other cuts use manifold3d booleans.
+tolerance, spline samples thinned to it); every polygon vertex becomes a column of copies
+moved by the prism's motion (:meth:`gen.geometry.body.Prism.place`) at its own heights, every
+stage end included (a chevron's mid-height too); neighbouring columns are joined by strips of
+triangles, and the two caps are triangulated once by ``manifold3d.triangulate`` (reused at the
+top when the whole section moves rigidly). The mesh is closed by construction. Straight
+through-cuts placed by :func:`gen.geometry.body.plan_cuts` become straight hole walls; unions
+and other cuts use manifold3d booleans.
 
-Layer spacing (derivation, computed)
-------------------------------------
-The true twisted wall is S(u, z) = R(k z) P(u) + (s z, 0, z), P(u) a profile curve. The mesh
-interpolates S linearly on triangles of a (u, z) grid with profile chords of length ≤ ℓ and
-layer steps Δz (turn δ = |k| Δz per layer). On one triangle the deviation is at most the
-sum of the linear-interpolation errors of the three second-order terms:
+Tolerance: a straight or sheared wall is exact between its layers (S is linear in z), so its
+error is the polygon's alone (``PROFILE_SHARE`` of the tolerance, the rest unused). A twisted
+prism spends ``TWISTED_PROFILE_SHARE`` on the polygon and the rest on the twist: the number
+of steps of each column comes from the error bound derived in
+:mod:`gen.triangles.twist_walls` (helix sagitta along the chord's normal, mixed term of the
+profile chord and the turn, third-order and slide terms), strip by strip.
 
-* along u, the profile chord sagitta ε_p (bounded when the polygon is made);
-* along z, |S_zz| Δz²/8 = r k² Δz²/8 = r δ²/8, the sagitta of the helix chord;
-* the mixed term: S_uz = k J P'(u) (J = 90° turn) interpolated over the triangle
-  (0,0), (ℓ,0), (ℓ,Δz) gives |u v − v|max = 1/4, i.e. δ ℓ / 4.
-
-So ε ≤ ε_p + r_max δ²/8 + ℓ_max δ / 4. We spend ε_p = tol/2 on the polygon and solve
-r_max δ²/8 + ℓ_max δ/4 = tol/2 for δ, then use ⌈Θ/δ⌉ layers per stage (Θ the turn of the
-stage). Shear adds no error (S is linear in z there), so a sheared or straight stage needs
-no inner layer; a chevron always has a layer at the mid-height.
-
-Measured (2 cores; herringbone m_n 2, z 40, 2 × 10 mm, β 30°, 8 mm bore, tol 0.01 mm:
-2,503 vertices per layer, 9 layers per half, 95k triangles; best of 5, outline apart):
-this route 0.015 s; ``Manifold.extrude(n_divisions, twist_degrees)`` ×2 + union 0.31 s;
-``extrude`` with divisions + ``warp_batch`` 0.09 s. All three are watertight and agree in
-volume to 1e-9. The direct route also lets straight holes stay straight in a twisted part.
+Measured (2 cores; herringbone m_n 2, z 40, 2 × 10 mm, β 30°, 8 mm bore, tol 0.01 mm):
+uniform layers (one global radius and chord for every column: 9 layers per half) gave 52,554
+triangles; columns with their own steps give 28,840 (``benchmarks/bench_triangles.py``,
+``benchmarks/README.md``). Earlier, against manifold3d: the direct route took 0.015 s,
+``Manifold.extrude(n_divisions, twist_degrees)`` ×2 + union 0.31 s, ``extrude`` with
+divisions + ``warp_batch`` 0.09 s, all watertight and agreeing in volume to 1e-9; the direct
+route also lets straight holes stay straight in a twisted part.
 """
 
 from __future__ import annotations
@@ -46,7 +39,7 @@ from gen.triangles.twist_walls import chord_terms, column_counts, stage_walls, s
 #: share of the chordal tolerance spent on the section polygon of a straight or sheared prism
 PROFILE_SHARE = 0.5
 #: the same for a twisted prism (the rest bounds the twist: :mod:`gen.triangles.twist_walls`)
-TWISTED_PROFILE_SHARE = 0.4
+TWISTED_PROFILE_SHARE = 0.35   # fewest triangles over z 20/40/80 herringbones, 0.04…0.002 mm
 
 
 # --------------------------------------------------------------------------- polygons
