@@ -135,13 +135,14 @@ def _loop_walls(prism: Prism, poly: np.ndarray, moving: bool, tol_t: float, base
     vertices per polygon vertex, with its own steps per stage (:mod:`twist_walls`)."""
     n = len(poly)
     stages = prism.stages() if moving else ((prism.z0, prism.z1, 1.0),)
-    counts, leads = [], []
+    counts, leads, known = [], [], {}
     for za, zb, sign in stages:
         theta = abs(prism.twist) * (zb - za) if moving else 0.0
         if theta > 0.0:
-            counts.append(column_counts(*strip_steps(poly, theta, tol_t), theta))
-            _, _, _, c_sign = chord_terms(poly)
-            leads.append(c_sign * sign * prism.twist > 0.0)
+            if theta not in known:   # the two halves of a chevron turn alike
+                known[theta] = column_counts(*strip_steps(poly, theta, tol_t), theta)
+            counts.append(known[theta])
+            leads.append(chord_terms(poly)[3] * sign * prism.twist > 0.0)
         else:
             counts.append(np.ones(n, dtype=np.int64))
             leads.append(np.zeros(n, dtype=bool))

@@ -101,11 +101,12 @@ def turning_within(poly: np.ndarray, reach: np.ndarray) -> np.ndarray:
 
 
 def _bisect(f, hi: np.ndarray, tol: float) -> np.ndarray:
-    """Largest δ in [0, hi] with f(δ) ≤ tol, f increasing (to 1e-9 of hi, rounded down)."""
+    """Largest δ in [0, hi] with f(δ) ≤ tol, f increasing (rounded down, within 2⁻²⁴ of hi:
+    a step count ⌈Θ/δ⌉ can only come out higher than exact, never lower)."""
     lo = np.zeros_like(hi)
     ok = f(hi) <= tol
     top = hi.copy()
-    for _ in range(40):
+    for _ in range(24):
         m = 0.5 * (lo + top)
         good = f(m) <= tol
         lo = np.where(good, m, lo)
