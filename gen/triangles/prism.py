@@ -159,9 +159,10 @@ def _loop_walls(prism: Prism, poly: np.ndarray, moving: bool, tol_t: float, base
         cols.append(col)
         lvls.append(start[col] + m - 1)
         start = start + cnt
-    col, z, lvl = (np.concatenate(a) for a in (cols, zs, lvls))
-    order = np.lexsort((lvl, col))
-    col, z = col[order], z[order]
+    # scatter into column order: vertex (column i, level l) at offset[i] − base + l
+    at = (offset - base)[np.concatenate(cols)] + np.concatenate(lvls)
+    col, z = np.empty(len(at), dtype=np.int64), np.empty(len(at))
+    col[at], z[at] = np.concatenate(cols), np.concatenate(zs)
     if moving:
         th, s = prism.motion(z)
         c, sn = np.cos(th), np.sin(th)
