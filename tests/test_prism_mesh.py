@@ -417,3 +417,23 @@ def test_bad_input_raises():
         Body(())
     with pytest.raises(GeometryError):
         gear_twist(BETA, 10.0, "up")
+
+
+def test_round_bore_on_the_axis_stays_straight(gear20):
+    # a circle about the axis turned by any angle is the same circle (computed), so its wall
+    # needs no twist steps: bore vertices only at the two ends, the top ones not turned
+    loop, sz = gear20
+    pr = Prism(Section(loop, (circle(5.0),)), 0.0, 12.0, twist=gear_twist(BETA, sz.rp))
+    m = prism_triangles(pr, tol=0.01)
+    assert m.is_watertight and m.is_winding_consistent
+    v = m.vertices[np.isclose(np.hypot(m.vertices[:, 0], m.vertices[:, 1]), 5.0, atol=1e-9)]
+    assert set(np.round(v[:, 2], 9)) == {0.0, 12.0}
+    lo, hi = v[v[:, 2] == 0.0], v[v[:, 2] == 12.0]
+    assert len(lo) == len(hi) and np.allclose(np.sort(lo[:, :2], axis=0),
+                                              np.sort(hi[:, :2], axis=0), atol=1e-12)
+    # an off-axis round hole of the section turns with it
+    off = Prism(Section(loop, (circle(2.0, center=(8.0, 0.0)),)), 0.0, 12.0,
+                twist=gear_twist(BETA, sz.rp))
+    w = prism_triangles(off, tol=0.01).vertices
+    near = w[np.isclose(np.hypot(w[:, 0] - 8.0, w[:, 1]), 2.0, atol=1e-9)]
+    assert set(np.round(near[:, 2], 9)) == {0.0}

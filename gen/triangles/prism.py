@@ -178,7 +178,10 @@ def _prism_arrays(prism: Prism, tol: float, extra_holes=()):
     """(vertices (n, 3), triangles (m, 3)) of one prism with optional straight holes."""
     tol_p = (PROFILE_SHARE if prism.twist == 0.0 else TWISTED_PROFILE_SHARE) * tol
     loops = [(loop_polygon(prism.section.outer, tol_p, True), True)]
-    loops += [(loop_polygon(h, tol_p, False), True) for h in prism.section.holes]
+    # a round hole on the axis is its own image under any turn: its wall stays straight
+    # (exact along z, one step) and needs no twist share; shear moves it like the rest
+    loops += [(loop_polygon(h, tol_p, False), not (_on_axis(h) and prism.shear == 0.0))
+              for h in prism.section.holes]
     loops += [(loop_polygon(h, tol_p, False), False) for h in extra_holes]
     verts, tris, base = [], [], 0
     bottom, top = [], []  # global indices of each loop's first / last layer
@@ -199,6 +202,12 @@ def _prism_arrays(prism: Prism, tol: float, extra_holes=()):
         [prism.place(p, prism.z1) if mv else p for p, mv in loops])
     tris.append(last[top_cap])
     return np.concatenate(verts), np.concatenate(tris)
+
+
+def _on_axis(loop: Loop) -> bool:
+    """True for a full circle centred on the Z axis."""
+    return (loop.circle and len(loop.curves) == 1
+            and float(np.hypot(*np.asarray(loop.curves[0].center, dtype=float))) == 0.0)
 
 
 def _triangulate(polys) -> np.ndarray:
