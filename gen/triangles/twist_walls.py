@@ -190,11 +190,14 @@ def stage_walls(first: np.ndarray, counts: np.ndarray, a_leads: np.ndarray) -> n
     following consecutively (``counts[i]`` steps); ``a_leads[i]`` picks strip i's diagonal."""
     n = len(counts)
     nxt = (np.arange(n) + 1) % n
-    keys = np.column_stack([counts, counts[nxt], a_leads.astype(np.int64)])
-    uniq, inv = np.unique(keys, axis=0, return_inverse=True)
+    top = int(counts.max()) + 1
+    keys = (counts * top + counts[nxt]) * 2 + a_leads.astype(np.int64)
+    order = np.argsort(keys, kind="stable")
+    cut = np.flatnonzero(np.diff(keys[order])) + 1
     out = []
-    for u, (na, nb, lead) in enumerate(uniq):
-        strips = np.nonzero(inv.ravel() == u)[0]
+    for strips in np.split(order, cut):
+        na, rest = divmod(int(keys[strips[0]]), 2 * top)
+        nb, lead = divmod(rest, 2)
         pat = strip_pattern(int(na), int(nb), bool(lead))
         base = np.where(pat[None, :, :, 0] == 0, first[strips][:, None, None],
                         first[nxt[strips]][:, None, None])
