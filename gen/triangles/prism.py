@@ -18,7 +18,7 @@ profile chord and the turn, third-order and slide terms), strip by strip.
 
 Measured (2 cores; herringbone m_n 2, z 40, 2 × 10 mm, β 30°, 8 mm bore, tol 0.01 mm):
 uniform layers (one global radius and chord for every column: 9 layers per half) gave 52,554
-triangles; columns with their own steps give 28,840 (``benchmarks/bench_triangles.py``,
+triangles; columns with their own steps give 28,384 (``benchmarks/bench_triangles.py``,
 ``benchmarks/README.md``). Earlier, against manifold3d: the direct route took 0.015 s,
 ``Manifold.extrude(n_divisions, twist_degrees)`` ×2 + union 0.31 s, ``extrude`` with
 divisions + ``warp_batch`` 0.09 s, all watertight and agreeing in volume to 1e-9; the direct
