@@ -7,8 +7,8 @@ The strip between columns a = i and b = i + 1 is triangulated with its vertices 
 triangles per step where n_a = n_b (the diagonal chosen as below), otherwise a zipper that
 advances one level on one side at a time, always on the side whose next level is lower.
 
-Error bound (Taylor remainder of linear interpolation, derivation computed)
--------------------------------------------------------------------------
+Error bound (linear interpolation on a triangle, derivation computed)
+-------------------------------------------------------------------
 Take a point X = Σ λ_i X_i of a wall triangle, X_i the corners at heights z_i (λ_i ≥ 0,
 Σ λ_i = 1, z = Σ λ_i z_i). The shear is linear in z within a stage and cancels; undoing the
 turn θ(z) of its own height brings X into the section plane at
@@ -24,10 +24,12 @@ R(φ) − I = (cos φ − 1) I + sin φ J gives, exactly,
     E_n = (Y − Q)·n̂ = −c A − ℓ W − Σ λ_i (sin φ_i − φ_i) s_i,
     E_t = (Y − Q)·t̂ = −Σ λ_i (1 − cos φ_i) s_i + c Σ λ_i (sin φ_i − φ_i),
 
-with A = Σ λ_i (1 − cos φ_i) ∈ [0, δ²/8] (1 − cos φ ≤ φ²/2 and a weighted variance of values
-in a range δ is ≤ δ²/4) and W = Σ_{i on b} λ_i φ_i (Σ λ_i φ_i s_i = ℓ W because Σ λ_i φ_i = 0).
+with A = Σ λ_i (1 − cos φ_i) ∈ [0, δ²/8] (1 − cos φ ≤ φ²/2, and Popoviciu's inequality: a
+weighted variance of values in a range δ is ≤ δ²/4) and W = Σ_{i on b} λ_i φ_i
+(Σ λ_i φ_i s_i = ℓ W because Σ λ_i φ_i = 0).
 On a triangle with two corners on one column, W = ±λ_3 k Σ_{j≠3} λ_j (z_3 − z_j), so
-|W| ≤ λ_3 (1 − λ_3) δ ≤ δ/4. With |sin φ − φ| ≤ |φ|³/6 and Σ λ |φ|³ ≤ δ · δ²/4:
+|W| ≤ λ_3 (1 − λ_3) δ ≤ δ/4. With |sin φ − φ| ≤ |φ|³/6 (Taylor remainder of sin) and
+Σ λ |φ|³ ≤ δ · δ²/4:
 
     |E_n| ≤ |c| δ²/8 + ℓ δ/4 + s_max δ³/24,        |E_t| ≤ τ = s_max δ²/8 + |c| δ³/24.
 
