@@ -23,7 +23,9 @@ from gen.geometry.gear_outline import gear_loop
 from gen.geometry.generate import generate_flank
 from gen.geometry.rack_outline import rack_loop, rack_sizes
 from gen.geometry.section import Arc, Line, Loop, Section, circle, signed_area
-from gen.triangles.prism import body_triangles, layer_heights, loop_polygon, prism_triangles, twist_step
+from gen.triangles.prism import (TWISTED_PROFILE_SHARE, body_triangles, loop_polygon,
+                                 prism_triangles)
+from gen.triangles.twist_walls import column_counts, strip_pattern, strip_steps
 from gen.validate import helix
 
 BETA = math.radians(30)
@@ -114,42 +116,151 @@ def test_square_with_straight_hole_in_twisted_prism():
 
 
 # --------------------------------------------------------------------------- tolerance bound
-def test_twist_step_solves_the_bound():
-    for r, chord, tol in [(48.0, 1.4, 0.005), (10.0, 0.0, 0.01), (100.0, 3.0, 0.001)]:
-        d = twist_step(r, chord, tol)
-        assert r * d * d / 8 + chord * d / 4 == pytest.approx(tol, rel=1e-12)
+def wall_deviation(mesh, prism, loops, k=6):
+    """In-plane distance (mm) from points spread over every wall triangle to the exact section.
+
+    Method (untwisting, computed): a barycentric grid of (k+1)(k+2)/2 points on each wall
+    triangle; each point turned back by −θ(z) and shifted back by −s(z) of its own height
+    (``Prism.motion``) lands in the base section plane, where the exact wall is the section
+    curve itself, so its distance there to the curve bounds the 3-D distance to the twisted
+    wall from above. The curves are taken as ``Loop.polygon(1e-4)`` (arcs within 0.1 µm,
+    splines through their own samples, which are what the triangle layer treats as exact),
+    searched with a shapely STRtree of its segments."""
+    walls = np.abs(mesh.face_normals[:, 2]) < 0.999
+    tri = mesh.triangles[walls]
+    bary = np.array([(i / k, j / k, 1 - (i + j) / k) for i in range(k + 1)
+                     for j in range(k + 1 - i)])
+    pts = np.einsum("gk,tkd->tgd", bary, tri).reshape(-1, 3)
+    th, sh = prism.motion(pts[:, 2])
+    c, s = np.cos(-th), np.sin(-th)
+    x = pts[:, 0] - sh
+    back = np.column_stack([c * x - s * pts[:, 1], s * x + c * pts[:, 1]])
+    segs = []
+    for loop in loops:
+        q = loop.polygon(1e-4)
+        segs.append(np.stack([q, np.roll(q, -1, axis=0)], axis=1))
+    tree = shapely.STRtree(shapely.linestrings(np.concatenate(segs)))
+    (hit, _), d = tree.query_nearest(shapely.points(back), max_distance=1.0,
+                                     return_distance=True, all_matches=False)
+    out = np.full(len(back), np.inf)   # a point farther than 1 mm counts as a failure
+    out[hit] = d
+    return out
 
 
 @pytest.mark.parametrize("chevron", [False, True])
-@pytest.mark.parametrize("tol", [0.05, 0.01])
+@pytest.mark.parametrize("tol", [0.04, 0.01])
 def test_gear_walls_stay_within_tol_of_the_helicoid(gear20, tol, chevron):
     loop, sz = gear20
-    pr = Prism(Section(loop), 0.0, 16.0, twist=gear_twist(BETA, sz.rp), chevron=chevron)
+    pr = Prism(Section(loop, (circle(5.0),)), 0.0, 16.0, twist=gear_twist(BETA, sz.rp),
+               chevron=chevron)
     m = prism_triangles(pr, tol=tol)
-    assert m.is_watertight
-    walls = np.abs(m.face_normals[:, 2]) < 0.999
-    tri = m.triangles[walls]
-    # points inside each triangle: centroid and edge midpoints
-    pts = np.concatenate([tri.mean(axis=1), 0.5 * (tri[:, 0] + tri[:, 1]),
-                          0.5 * (tri[:, 1] + tri[:, 2]), 0.5 * (tri[:, 2] + tri[:, 0])])
-    pts = pts[np.random.default_rng(7).choice(len(pts), min(len(pts), 30000), replace=False)]
-    th, _ = pr.motion(pts[:, 2])
-    c, s = np.cos(-th), np.sin(-th)
-    back = np.column_stack([c * pts[:, 0] - s * pts[:, 1], s * pts[:, 0] + c * pts[:, 1]])
-    exact = shapely.LinearRing(loop.polygon(1e-4))  # samples of the true profile
-    d = shapely.distance(shapely.points(back), exact)
-    # in-plane distance bounds the 3-D one from above; 2e-3 covers the reference polygon
+    assert m.is_watertight and m.is_winding_consistent
+    d = wall_deviation(m, pr, [loop, circle(5.0)])
     print(f"worst wall deviation {d.max():.5f} mm for tol {tol}")
-    assert d.max() <= tol + 2e-3
-    assert d.max() > 0.2 * tol  # the layer count is not wastefully high
+    # the reference curves lie within 1e-4 mm of the exact ones: distance ≤ d + 1e-4
+    assert d.max() + 1e-4 <= tol
+    assert d.max() > 0.3 * tol  # the step counts are not wastefully high
 
 
-def test_layer_count_grows_as_tol_shrinks(gear20):
+def test_herringbone_40_walls_stay_within_tol():
+    # the benchmark's gear: m_n 2, z 40, β 30°, 2 × 10 mm, 8 mm bore (dense check at 0.01 mm)
+    rk = basic_rack("A")
+    sz = gear_sizes(40, 2.0, rk, beta=BETA)
+    loop = gear_loop(generate_flank(40, sz.rp, cutter_for(sz, rk), sz.ra))
+    pr = Prism(Section(loop, (circle(4.0),)), 0.0, 20.0, twist=gear_twist(BETA, sz.rp),
+               chevron=True)
+    m = prism_triangles(pr, tol=0.01)
+    assert m.is_watertight and m.is_winding_consistent
+    d = wall_deviation(m, pr, [loop, circle(4.0)], k=4)
+    assert d.max() + 1e-4 <= 0.01
+
+
+def _strip_deviation(p_a, p_b, k, za, zb, heights_a, heights_b, a_leads):
+    """Largest |Y − chord| over one strip, Y = Σ λ_i R(k (z_i − z)) P_i (brute force)."""
+    pat = strip_pattern(len(heights_a) - 1, len(heights_b) - 1, a_leads)
+    pa, pb = np.asarray(p_a, float), np.asarray(p_b, float)
+    t = (pb - pa) / np.hypot(*(pb - pa))
+    n = np.array([t[1], -t[0]])
+    worst = 0.0
+    g = np.linspace(0.0, 1.0, 41)
+    lam = np.array([(u, v, 1 - u - v) for u in g for v in g if u + v <= 1 + 1e-12])
+    for tri in pat:
+        P = np.array([pa if side == 0 else pb for side, _ in tri])
+        Z = np.array([(heights_a if side == 0 else heights_b)[lvl] for side, lvl in tri])
+        z = lam @ Z
+        phi = k * (Z[None, :] - z[:, None])
+        c, s = np.cos(phi), np.sin(phi)
+        Y = np.stack([(lam * (c * P[:, 0] - s * P[:, 1])).sum(1),
+                      (lam * (s * P[:, 0] + c * P[:, 1])).sum(1)], axis=1)
+        worst = max(worst, float(np.max(np.abs((Y - pa) @ n))))
+    return worst
+
+
+def test_quad_diagonal_sign_rule():
+    # a flank-like chord (c = P·n > 0, ℓ 0.8 mm at 45 mm) turning k > 0: the rule picks the
+    # diagonal "a leads" for c k > 0; the bound of gen/triangles/twist_walls.py then is
+    # max(|c| δ²/8, ℓ δ/4) + s δ³/24, the other diagonal reaches nearly their sum
+    pa, pb = np.array([45.0, 0.0]), np.array([45.2, 0.775])
+    k, h, steps = 0.0125, 10.0, 4
+    zs = np.linspace(0.0, h, steps + 1)
+    good = _strip_deviation(pa, pb, k, 0.0, h, zs, zs, True)
+    bad = _strip_deviation(pa, pb, k, 0.0, h, zs, zs, False)
+    t = (pb - pa) / np.hypot(*(pb - pa))
+    c = abs(pa @ np.array([t[1], -t[0]]))      # computed: distance of the chord's line
+    ell, delta = float(np.hypot(*(pb - pa))), k * h / steps
+    s = max(abs(pa @ t), abs(pb @ t))
+    assert good <= max(c * delta ** 2 / 8, ell * delta / 4) + s * delta ** 3 / 24
+    assert bad > 1.5 * good
+    assert bad <= c * delta ** 2 / 8 + ell * delta / 4 + s * delta ** 3 / 24
+
+
+def test_zipper_strip_stays_within_the_sum_bound():
+    pa, pb = np.array([30.0, 0.0]), np.array([29.9, 0.6])
+    k, h = -0.02, 8.0
+    ha, hb = np.linspace(0.0, h, 4), np.linspace(0.0, h, 7)   # 3 and 6 steps: zipper
+    got = _strip_deviation(pa, pb, k, 0.0, h, ha, hb, True)
+    t = (pb - pa) / np.hypot(*(pb - pa))
+    c = abs(pa @ np.array([t[1], -t[0]]))
+    ell, delta = float(np.hypot(*(pb - pa))), abs(k) * h / 3   # larger step of the two
+    s = max(abs(pa @ t), abs(pb @ t))
+    assert got <= c * delta ** 2 / 8 + ell * delta / 4 + s * delta ** 3 / 24
+    assert got > 0.3 * (c * delta ** 2 / 8)   # the bound is not loose by orders
+
+
+def test_strip_patterns_are_zippers():
+    for na, nb in [(1, 1), (3, 3), (2, 5), (5, 2), (4, 6)]:
+        for lead in (False, True):
+            pat = strip_pattern(na, nb, lead)
+            assert len(pat) == na + nb  # each triangle advances one level on one side
+            for side, n in ((0, na), (1, nb)):
+                lv = sorted({lvl for tri in pat for s, lvl in tri if s == side})
+                assert lv == list(range(n + 1))
+
+
+def test_column_steps_follow_the_radius_and_tol(gear20):
+    loop, sz = gear20
+    theta = gear_twist(BETA, sz.rp) * 10.0
+    totals = []
+    for tol in (0.02, 0.005, 0.001):
+        poly = loop_polygon(circle(4.0), tol)
+        bore = column_counts(*strip_steps(poly, theta, tol), theta)
+        poly = loop_polygon(loop, tol)
+        n = column_counts(*strip_steps(poly, theta, tol), theta)
+        r = np.hypot(*poly.T)
+        # the helix sagitta r δ²/8 grows with the radius: the tip land (r_a) needs the most
+        # steps, a bore of 4 mm radius fewer than the tooth columns on average
+        assert n[r > sz.ra - 1e-6].max() == n.max() > bore.max()
+        assert bore.mean() < n.mean()
+        totals.append(n.mean())
+    assert totals[0] < totals[1] < totals[2]
+
+
+def test_chevron_apex_is_a_layer_of_every_column(gear20):
     loop, sz = gear20
     pr = Prism(Section(loop), 0.0, 20.0, twist=gear_twist(BETA, sz.rp), chevron=True)
-    n = [len(layer_heights(pr, sz.ra, 1.0, t)) for t in (0.02, 0.005, 0.001)]
-    assert n[0] < n[1] < n[2]
-    assert 10.0 in layer_heights(pr, sz.ra, 1.0, 0.01)  # the chevron apex is a layer
+    m = prism_triangles(pr, tol=0.01)
+    n = len(loop_polygon(loop, TWISTED_PROFILE_SHARE * 0.01))  # the polygon of a twisted prism
+    assert np.count_nonzero(np.isclose(m.vertices[:, 2], 10.0, atol=1e-12)) == n
 
 
 def test_spline_thinning_keeps_tol(gear20):
@@ -306,3 +417,23 @@ def test_bad_input_raises():
         Body(())
     with pytest.raises(GeometryError):
         gear_twist(BETA, 10.0, "up")
+
+
+def test_round_bore_on_the_axis_stays_straight(gear20):
+    # a circle about the axis turned by any angle is the same circle (computed), so its wall
+    # needs no twist steps: bore vertices only at the two ends, the top ones not turned
+    loop, sz = gear20
+    pr = Prism(Section(loop, (circle(5.0),)), 0.0, 12.0, twist=gear_twist(BETA, sz.rp))
+    m = prism_triangles(pr, tol=0.01)
+    assert m.is_watertight and m.is_winding_consistent
+    v = m.vertices[np.isclose(np.hypot(m.vertices[:, 0], m.vertices[:, 1]), 5.0, atol=1e-9)]
+    assert set(np.round(v[:, 2], 9)) == {0.0, 12.0}
+    lo, hi = v[v[:, 2] == 0.0], v[v[:, 2] == 12.0]
+    assert len(lo) == len(hi) and np.allclose(np.sort(lo[:, :2], axis=0),
+                                              np.sort(hi[:, :2], axis=0), atol=1e-12)
+    # an off-axis round hole of the section turns with it
+    off = Prism(Section(loop, (circle(2.0, center=(8.0, 0.0)),)), 0.0, 12.0,
+                twist=gear_twist(BETA, sz.rp))
+    w = prism_triangles(off, tol=0.01).vertices
+    near = w[np.isclose(np.hypot(w[:, 0] - 8.0, w[:, 1]), 2.0, atol=1e-9)]
+    assert set(np.round(near[:, 2], 9)) == {0.0}

@@ -1,35 +1,28 @@
 """Triangle meshes of straight, twisted, sheared and chevron prisms, without the CAD kernel.
 
 Vertices are placed directly: each section loop becomes a polygon (arcs at a chordal
-tolerance, spline samples thinned to it), copied to a stack of layers and moved by the
-prism's motion (:meth:`gen.geometry.body.Prism.place`); neighbouring layers are joined by
-quads split in two, and the two caps are triangulated once by ``manifold3d.triangulate``
-(reused at the top when the whole section moves rigidly). The mesh is closed by
-construction. Straight through-cuts placed by :func:`gen.geometry.body.plan_cuts` become
-straight hole walls; unions and other cuts use manifold3d booleans.
+tolerance, spline samples thinned to it); every polygon vertex becomes a column of copies
+moved by the prism's motion (:meth:`gen.geometry.body.Prism.place`) at its own heights, every
+stage end included (a chevron's mid-height too); neighbouring columns are joined by strips of
+triangles, and the two caps are triangulated once by ``manifold3d.triangulate`` (reused at the
+top when the whole section moves rigidly). The mesh is closed by construction. Straight
+through-cuts placed by :func:`gen.geometry.body.plan_cuts` become straight hole walls; unions
+and other cuts use manifold3d booleans.
 
-Layer spacing (derivation, computed)
-------------------------------------
-The true twisted wall is S(u, z) = R(k z) P(u) + (s z, 0, z), P(u) a profile curve. The mesh
-interpolates S linearly on triangles of a (u, z) grid with profile chords of length ≤ ℓ and
-layer steps Δz (turn δ = |k| Δz per layer). On one triangle the deviation is at most the
-sum of the linear-interpolation errors of the three second-order terms:
+Tolerance: a straight or sheared wall is exact between its layers (S is linear in z), so its
+error is the polygon's alone (``PROFILE_SHARE`` of the tolerance, the rest unused). A twisted
+prism spends ``TWISTED_PROFILE_SHARE`` on the polygon and the rest on the twist: the number
+of steps of each column comes from the error bound derived in
+:mod:`gen.triangles.twist_walls` (helix sagitta along the chord's normal, mixed term of the
+profile chord and the turn, third-order and slide terms), strip by strip.
 
-* along u, the profile chord sagitta ε_p (bounded when the polygon is made);
-* along z, |S_zz| Δz²/8 = r k² Δz²/8 = r δ²/8, the sagitta of the helix chord;
-* the mixed term: S_uz = k J P'(u) (J = 90° turn) interpolated over the triangle
-  (0,0), (ℓ,0), (ℓ,Δz) gives |u v − v|max = 1/4, i.e. δ ℓ / 4.
-
-So ε ≤ ε_p + r_max δ²/8 + ℓ_max δ / 4. We spend ε_p = tol/2 on the polygon and solve
-r_max δ²/8 + ℓ_max δ/4 = tol/2 for δ, then use ⌈Θ/δ⌉ layers per stage (Θ the turn of the
-stage). Shear adds no error (S is linear in z there), so a sheared or straight stage needs
-no inner layer; a chevron always has a layer at the mid-height.
-
-Measured (2 cores; herringbone m_n 2, z 40, 2 × 10 mm, β 30°, 8 mm bore, tol 0.01 mm:
-2,503 vertices per layer, 9 layers per half, 95k triangles; best of 5, outline apart):
-this route 0.015 s; ``Manifold.extrude(n_divisions, twist_degrees)`` ×2 + union 0.31 s;
-``extrude`` with divisions + ``warp_batch`` 0.09 s. All three are watertight and agree in
-volume to 1e-9. The direct route also lets straight holes stay straight in a twisted part.
+Measured (2 cores; herringbone m_n 2, z 40, 2 × 10 mm, β 30°, 8 mm bore, tol 0.01 mm):
+uniform layers (one global radius and chord for every column: 9 layers per half) gave 52,554
+triangles; columns with their own steps give 28,384 (``benchmarks/bench_triangles.py``,
+``benchmarks/README.md``). Earlier, against manifold3d: the direct route took 0.015 s,
+``Manifold.extrude(n_divisions, twist_degrees)`` ×2 + union 0.31 s, ``extrude`` with
+divisions + ``warp_batch`` 0.09 s, all watertight and agreeing in volume to 1e-9; the direct
+route also lets straight holes stay straight in a twisted part.
 """
 
 from __future__ import annotations
@@ -41,9 +34,12 @@ import numpy as np
 from gen.errors import GeometryError
 from gen.geometry.body import Body, Prism, plan_cuts
 from gen.geometry.section import Arc, Line, Loop, Spline, signed_area
+from gen.triangles.twist_walls import chord_terms, column_counts, stage_walls, strip_steps
 
-#: share of the chordal tolerance spent on the section polygon (the rest on the twist)
+#: share of the chordal tolerance spent on the section polygon of a straight or sheared prism
 PROFILE_SHARE = 0.5
+#: the same for a twisted prism (the rest bounds the twist: :mod:`gen.triangles.twist_walls`)
+TWISTED_PROFILE_SHARE = 0.35   # fewest triangles over z 20/40/80 herringbones, 0.04…0.002 mm
 
 
 # --------------------------------------------------------------------------- polygons
@@ -133,62 +129,69 @@ def loop_polygon(loop: Loop, tol: float, ccw: bool = True) -> np.ndarray:
     return poly
 
 
-# --------------------------------------------------------------------------- layers
-def twist_step(r_max: float, chord_max: float, tol: float) -> float:
-    """Largest layer turn δ (rad) with r δ²/8 + ℓ δ/4 ≤ tol (see the module docstring)."""
-    a, b = r_max / 8.0, chord_max / 4.0
-    if a <= 0.0:
-        return math.inf if b <= 0.0 else tol / b
-    return (-b + math.sqrt(b * b + 4.0 * a * tol)) / (2.0 * a)
-
-
-def layer_heights(prism: Prism, r_max: float, chord_max: float, tol: float) -> np.ndarray:
-    """Heights of the mesh layers of a prism (z0 … z1), including every stage end."""
-    zs = [prism.z0]
-    for za, zb, _ in prism.stages():
-        n = 1
-        if prism.twist != 0.0:
-            delta = twist_step(r_max, chord_max, tol)
-            n = max(1, int(math.ceil(abs(prism.twist) * (zb - za) / delta - 1e-12)))
-        zs.extend(np.linspace(za, zb, n + 1)[1:])
-    return np.array(zs)
-
-
 # --------------------------------------------------------------------------- assembly
-def _walls(base: int, n_vert: int, n_layers: int) -> np.ndarray:
-    """Quads between layers of one loop (vertex index = base + layer·n_vert + i), outward."""
-    i = np.arange(n_vert)
-    j = (i + 1) % n_vert
+def _loop_walls(prism: Prism, poly: np.ndarray, moving: bool, tol_t: float, base: int):
+    """(vertices (n, 3), wall triangles, bottom indices, top indices) of one loop: a column of
+    vertices per polygon vertex, with its own steps per stage (:mod:`twist_walls`)."""
+    n = len(poly)
+    stages = prism.stages() if moving else ((prism.z0, prism.z1, 1.0),)
+    counts, leads, known = [], [], {}
+    for za, zb, sign in stages:
+        theta = abs(prism.twist) * (zb - za) if moving else 0.0
+        if theta > 0.0:
+            if theta not in known:   # the two halves of a chevron turn alike
+                known[theta] = column_counts(*strip_steps(poly, theta, tol_t), theta)
+            counts.append(known[theta])
+            leads.append(chord_terms(poly)[3] * sign * prism.twist > 0.0)
+        else:
+            counts.append(np.ones(n, dtype=np.int64))
+            leads.append(np.zeros(n, dtype=bool))
+    levels = 1 + np.sum(counts, axis=0)                   # vertices per column
+    offset = base + np.concatenate([[0], np.cumsum(levels)[:-1]])
+    cols, zs, lvls = [np.arange(n)], [np.full(n, float(prism.z0))], [np.zeros(n, np.int64)]
+    start = np.ones(n, dtype=np.int64)                    # level of each stage's first step
     tris = []
-    for k in range(n_layers - 1):
-        b0, t0 = base + k * n_vert, base + (k + 1) * n_vert
-        tris.append(np.column_stack([b0 + i, b0 + j, t0 + j]))
-        tris.append(np.column_stack([b0 + i, t0 + j, t0 + i]))
-    return np.concatenate(tris)
+    for (za, zb, _), cnt, lead in zip(stages, counts, leads):
+        tris.append(stage_walls(offset + start - 1, cnt, lead))
+        col = np.repeat(np.arange(n), cnt)
+        m = np.arange(len(col)) - np.repeat(np.cumsum(cnt) - cnt, cnt) + 1
+        zs.append(np.where(m == cnt[col], zb, za + (zb - za) * m / cnt[col]))
+        cols.append(col)
+        lvls.append(start[col] + m - 1)
+        start = start + cnt
+    # scatter into column order: vertex (column i, level l) at offset[i] − base + l
+    at = (offset - base)[np.concatenate(cols)] + np.concatenate(lvls)
+    col, z = np.empty(len(at), dtype=np.int64), np.empty(len(at))
+    col[at], z[at] = np.concatenate(cols), np.concatenate(zs)
+    if moving:
+        th, s = prism.motion(z)
+        c, sn = np.cos(th), np.sin(th)
+        p = poly[col]
+        xy = np.column_stack([c * p[:, 0] - sn * p[:, 1] + s, sn * p[:, 0] + c * p[:, 1]])
+    else:
+        xy = poly[col]
+    verts = np.column_stack([xy, z])
+    return verts, np.concatenate(tris), offset, offset + levels - 1
 
 
 def _prism_arrays(prism: Prism, tol: float, extra_holes=()):
     """(vertices (n, 3), triangles (m, 3)) of one prism with optional straight holes."""
-    tol_p = PROFILE_SHARE * tol
+    tol_p = (PROFILE_SHARE if prism.twist == 0.0 else TWISTED_PROFILE_SHARE) * tol
     loops = [(loop_polygon(prism.section.outer, tol_p, True), True)]
-    loops += [(loop_polygon(h, tol_p, False), True) for h in prism.section.holes]
+    # a round hole on the axis is its own image under any turn: its wall stays straight
+    # (exact along z, one step) and needs no twist share; shear moves it like the rest
+    loops += [(loop_polygon(h, tol_p, False), not (_on_axis(h) and prism.shear == 0.0))
+              for h in prism.section.holes]
     loops += [(loop_polygon(h, tol_p, False), False) for h in extra_holes]
-    moving = [p for p, mv in loops if mv]
-    r_max = max(float(np.max(np.hypot(p[:, 0], p[:, 1]))) for p in moving)
-    chord = max(float(np.max(np.hypot(*(p - np.roll(p, 1, axis=0)).T))) for p in moving)
-    zs = layer_heights(prism, r_max, chord, tol - tol_p)
     verts, tris, base = [], [], 0
     bottom, top = [], []  # global indices of each loop's first / last layer
     for poly, mv in loops:
-        heights = zs if mv else np.array([prism.z0, prism.z1])
-        n = len(poly)
-        for z in heights:
-            xy = prism.place(poly, z) if mv else poly
-            verts.append(np.column_stack([xy, np.full(n, z)]))
-        tris.append(_walls(base, n, len(heights)))
-        bottom.append(base + np.arange(n))
-        top.append(base + (len(heights) - 1) * n + np.arange(n))
-        base += n * len(heights)
+        v, t, b, e = _loop_walls(prism, poly, mv, tol - tol_p, base)
+        verts.append(v)
+        tris.append(t)
+        bottom.append(b)
+        top.append(e)
+        base += len(v)
     polys = [p for p, _ in loops]
     cap = _triangulate(polys)
     first = np.concatenate(bottom)
@@ -199,6 +202,12 @@ def _prism_arrays(prism: Prism, tol: float, extra_holes=()):
         [prism.place(p, prism.z1) if mv else p for p, mv in loops])
     tris.append(last[top_cap])
     return np.concatenate(verts), np.concatenate(tris)
+
+
+def _on_axis(loop: Loop) -> bool:
+    """True for a full circle centred on the Z axis."""
+    return (loop.circle and len(loop.curves) == 1
+            and float(np.hypot(*np.asarray(loop.curves[0].center, dtype=float))) == 0.0)
 
 
 def _triangulate(polys) -> np.ndarray:
