@@ -24,8 +24,6 @@ import re
 _ENTITY = re.compile(rb"^#(\d+) = (.*?);\r?\n(?=#\d+ = |\Z)", re.M | re.S)
 _REF = re.compile(rb"#(\d+)")
 _STRING = re.compile(rb"'(?:[^']|'')*'")
-_TYPE = re.compile(rb"\s*([A-Z_0-9]*)")
-_SPACE = re.compile(rb"\s+")
 
 #: instance types holding a geometric value only (merged when equal)
 SHARED_TYPES = frozenset({
@@ -55,13 +53,19 @@ def _kind(body: bytes) -> bytes:
     if body.startswith(b"("):
         inner = body[1:].lstrip()
         return b"complex" if inner.startswith(_COMPLEX_SHARED) else b"(other"
-    return _TYPE.match(body).group(1)
+    return body.split(b"(", 1)[0].strip()
+
+
+def _plain(body: bytes) -> bool:
+    """Every quoted string of ``body`` is empty (''), so a '#' is always a reference."""
+    return b"'" not in body.replace(b"''", b"")
 
 
 def share_geometry(data: bytes) -> bytes:
     """The STEP text ``data`` with equal geometric instances merged and instances numbered
     from 1 in file order (see the module docstring); a text it cannot parse is returned
-    unchanged."""
+    unchanged. Instances without a non-empty string (nearly all) take a fast path: their
+    references are found in one pass, and an instance without references is its own key."""
     start = data.find(b"\nDATA;\n")
     end = data.rfind(b"ENDSEC;")
     if start < 0 or end < start:
@@ -72,12 +76,18 @@ def share_geometry(data: bytes) -> bytes:
         return data                       # not one instance after another: leave it alone
     ents = [(int(m.group(1)), m.group(2)) for m in matches]
     bodies = dict(ents)
-    kinds = {i: _kind(b) for i, b in ents}
-    protected = set()   # what anything but geometry and its vertex/edge/face refers to
+    kinds, plain, refs = {}, {}, {}
     for i, b in ents:
+        kinds[i] = _kind(b)
+        plain[i] = _plain(b)
+        refs[i] = [int(r) for r in _REF.findall(b if plain[i] else _STRING.sub(b"", b))]
+    if any(r not in bodies for rs in refs.values() for r in rs):
+        return data                       # a reference to no instance: leave the text alone
+    protected = set()   # what anything but geometry and its vertex/edge/face refers to
+    for i, _ in ents:
         if kinds[i] not in SHARED_TYPES and kinds[i] not in _GEOMETRY_USERS \
                 and kinds[i] != b"complex":
-            protected.update(int(r) for r in _REF.findall(_STRING.sub(b"", b)))
+            protected.update(refs[i])
     rep: dict = {}
     seen: dict = {}
 
@@ -89,24 +99,29 @@ def share_geometry(data: bytes) -> bytes:
             rep[i] = i
             return i
         rep[i] = i                        # guards a cycle (none in geometry)
-        key = _SPACE.sub(b"", _REF.sub(lambda m: b"#%d" % representative(int(m.group(1))),
-                                       bodies[i]))
-        rep[i] = seen.setdefault(key, i)
+        body = bodies[i]
+        if b"#" in body:
+            body = _REF.sub(lambda m: b"#%d" % representative(int(m.group(1))), body)
+        rep[i] = seen.setdefault(body.translate(None, b" \t\r\n"), i)
         return rep[i]
 
     for i, _ in ents:
         representative(i)
-    if any(int(r) not in bodies for _, b in ents for r in _REF.findall(_STRING.sub(b"", b))):
-        return data                       # a reference to no instance: leave the text alone
     kept = [i for i, _ in ents if rep[i] == i]
     number = {i: n for n, i in enumerate(kept, 1)}
 
+    def new_ref(m) -> bytes:
+        r = int(m.group(1))
+        return b"#%d" % number[rep.get(r, r)]
+
     def renumber(s: bytes) -> bytes:
-        return _REF.sub(lambda m: b"#%d" % number[rep.get(int(m.group(1)), int(m.group(1)))],
-                        s)
+        return _REF.sub(new_ref, s)
 
     out = [head]
     for i in kept:
-        out.append(b"#%d = " % number[i] + _outside_strings(bodies[i], renumber) + b";\n")
+        body = bodies[i]
+        if refs[i] or not plain[i]:
+            body = renumber(body) if plain[i] else _outside_strings(body, renumber)
+        out.append(b"#%d = %s;\n" % (number[i], body))
     out.append(tail)
     return b"".join(out)
