@@ -225,3 +225,37 @@ def test_every_demo_stl_passes_admesh_with_nothing_to_fix(demo):
         assert re.search(r"^Total disconnected facets\s*:\s*0\s+0\s*$", text, re.M), name
         vol = float(re.search(r"Volume\s*:\s*([-\d.]+)", text).group(1))
         assert vol == pytest.approx(entry["mass_properties"]["volume_mm3"], rel=1e-4), name
+
+
+def test_assembly_views_on_the_page_are_drawn_from_the_written_stl_files(demo):
+    # the build's workers shade each assembly's placed members right after its STEP; the
+    # page must embed exactly the pictures drawn from the STL files in the folder
+    import base64
+
+    from gen.api import check_files
+    from gen.export.report_assembly import placed_pictures
+
+    result = check_files(PARAMS)
+    html = (demo / "report.html").read_text(encoding="utf-8")
+    assert result.assemblies
+    for asm in result.assemblies:
+        paths = {n: str(demo / f"{n}.stl") for n in asm.poses}
+        pictures = placed_pictures(asm, result.models, paths)
+        assert pictures and len(pictures) == 2
+        for png in pictures:
+            assert base64.b64encode(png).decode("ascii") in html
+
+
+def test_an_assembly_outcome_carrying_pictures_is_embedded_as_is():
+    # the page takes the worker's pictures (outcome.extra["pictures"]) without reading files
+    from gen.api import check_files
+    from gen.build.outcome import PartOutcome
+    from gen.export.report_assembly import assembly_html
+
+    result = check_files(PARAMS)
+    asm = result.assemblies[0]
+    oc = PartOutcome(f"assembly:{asm.name}", True)
+    oc.extra["pictures"] = [b"\x89PNG first", b"\x89PNG second"]
+    html = assembly_html(asm, result.models, {oc.name: oc}, "/nonexistent", "a")
+    assert html.count("data:image/png;base64,") == 2
+    assert "iVBORyBmaXJzdA==" in html and "iVBORyBzZWNvbmQ=" in html

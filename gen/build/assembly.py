@@ -48,8 +48,23 @@ def _phash(asm) -> str:
                                      sort_keys=True, default=str).encode()).hexdigest()
 
 
-def export_assembly(asm, models, out) -> PartOutcome:
-    """Write one assembly's STEP; failures become an error finding of the outcome."""
+def _pictures(asm, models, out):
+    """The report's shaded views of the placed members, drawn from the STL files the build has
+    just written (here, in the worker, so that the page only embeds them); None when a member
+    has no STL or a view cannot be drawn (the page then draws or omits it)."""
+    from gen.export.report_assembly import placed_pictures
+
+    paths = {n: os.path.join(out, n + ".stl") for n in asm.poses}
+    try:
+        return placed_pictures(asm, models, paths)
+    except Exception:
+        return None
+
+
+def export_assembly(asm, models, out, options=None) -> PartOutcome:
+    """Write one assembly's STEP; failures become an error finding of the outcome. With
+    ``options["pictures"]`` the report's views of the placed parts are drawn too
+    (``outcome.extra["pictures"]``)."""
     from gen.export.step_assembly import write_step_assembly
 
     path = os.path.join(out, asm.name + ".step")
@@ -62,6 +77,10 @@ def export_assembly(asm, models, out) -> PartOutcome:
         oc.ok, oc.status = False, "failed"
         oc.findings.append(Finding(ERROR, "export", f"assembly STEP: {exc}", asm.name,
                                    "", scope="assembly"))
+    if oc.ok and (options or {}).get("pictures"):
+        pictures = _pictures(asm, models, out)
+        if pictures is not None:
+            oc.extra["pictures"] = pictures
     oc.seconds = time.perf_counter() - t0
     oc.params_hash = _phash(asm)
     return oc
@@ -87,8 +106,9 @@ def plan_assemblies(result, out, formats, report, prev) -> list:
     return todo
 
 
-def export_assemblies(result, out, formats, report, prev) -> None:
+def export_assemblies(result, out, formats, report, prev, options=None) -> None:
     """Every assembly's STEP, here, one after the other, unless it and its parts are up to
     date (the parts already exported)."""
     for asm in plan_assemblies(result, out, formats, report, prev):
-        report.outcomes[f"assembly:{asm.name}"] = export_assembly(asm, result.models, out)
+        report.outcomes[f"assembly:{asm.name}"] = export_assembly(
+            asm, result.models, out, options if "stl" in formats else None)

@@ -47,7 +47,8 @@ def _assembly_work(name: str):
     from gen.build.assembly import export_assembly
 
     asm = next(a for a in _JOB["assemblies"] if a.name == name)
-    return export_assembly(asm, _JOB["models"], _JOB["out"])
+    return export_assembly(asm, _JOB["models"], _JOB["out"],
+                           _JOB["options"] if "stl" in _JOB["formats"] else None)
 
 
 def _export_group(models, names, out, formats, options=None) -> list:
@@ -187,7 +188,7 @@ def build(result, out: str, formats, *, force: bool = False, jobs: int = 1,
         names = [n for group in jobs_list for n in group]
         for oc in export_on_dask(result, names, out, formats, scheduler, progress, options):
             report.outcomes[oc.name] = oc
-        export_assemblies(result, out, formats, report, prev)
+        export_assemblies(result, out, formats, report, prev, options)
     elif jobs > 1 and len(jobs_list) > 1:
         import multiprocessing as mp
 
@@ -209,7 +210,7 @@ def build(result, out: str, formats, *, force: bool = False, jobs: int = 1,
             for oc in _export_group(models, names, out, tuple(formats), options):
                 report.outcomes[oc.name] = oc
                 progress.step(oc)
-        export_assemblies(result, out, formats, report, prev)
+        export_assemblies(result, out, formats, report, prev, options)
     for name, oc in report.outcomes.items():
         if not oc.ok:
             _keep_earlier(oc, earlier.get(name, {}), out, formats)

@@ -20,16 +20,50 @@ from gen.export.report_parts import ROLE_COLOURS, fmt, png_img, table
 W, H = 640, 360
 
 
-def placed_png(assembly, models, outcomes, out_dir, view, size=(320, 240)):
-    """PNG bytes of every member's STL placed by the assembly's poses, or None if a file is
-    missing. One depth buffer for all, so members hide each other correctly."""
+def stl_paths(assembly, outcomes, out_dir) -> dict:
+    """Member name → its STL file as the outcomes list it (None where there is none)."""
+    paths = {}
+    for name in assembly.poses:
+        oc = outcomes.get(name) if outcomes else None
+        rel = (oc.files or {}).get("stl", {}).get("path") if oc else None
+        paths[name] = os.path.join(out_dir, rel) if rel and out_dir else None
+    return paths
+
+
+def assembly_views(assembly, models) -> tuple:
+    """The (view, label) pairs an assembly is shaded from: a bevel set along its output axis
+    and from the side, any other set from above and from the side."""
+    from gen.export.report_raster import View
+
+    bevel = any(models[n].role.value == "bevel_gear" for n in assembly.parts.values()
+                if n in models)
+    return ((View(-90.0, 89.0), "along the output axis"),
+            (View(-40.0, 30.0), "from the side")) if bevel else \
+        ((View(-90.0, 89.0), "from above"), (View(-50.0, 30.0), "from the side"))
+
+
+def placed_pictures(assembly, models, paths: dict) -> list | None:
+    """PNG bytes of :func:`placed_png` for every view of :func:`assembly_views` (drawn by the
+    build's worker right after the assembly STEP, so the page only embeds them); None when a
+    member's STL is missing."""
+    out = []
+    for view, _ in assembly_views(assembly, models):
+        data = placed_png(assembly, models, paths, view)
+        if data is None:
+            return None
+        out.append(data)
+    return out
+
+
+def placed_png(assembly, models, paths: dict, view, size=(320, 240)):
+    """PNG bytes of every member's STL (``paths``: member name → file) placed by the
+    assembly's poses, or None if a file is missing. One depth buffer for all, so members hide
+    each other correctly."""
     from gen.export.report_raster import png_bytes, read_stl, shade
 
     verts, faces, cols, n0 = [], [], [], 0
     for name, pose in sorted(assembly.poses.items()):
-        oc = outcomes.get(name) if outcomes else None
-        rel = (oc.files or {}).get("stl", {}).get("path") if oc else None
-        path = os.path.join(out_dir, rel) if rel and out_dir else None
+        path = paths.get(name)
         if not path or not os.path.isfile(path):
             return None
         v, f = read_stl(path)
@@ -219,16 +253,17 @@ def kinematics_rows(assembly):
 
 def assembly_html(assembly, models, outcomes, out_dir, aid: str) -> str:
     """The figures and table of one assembly (without its heading)."""
-    from gen.export.report_raster import View
-
     figs = []
     bevel = any(models[n].role.value == "bevel_gear" for n in assembly.parts.values()
                 if n in models)
-    views = ((View(-90.0, 89.0), "along the output axis"),
-             (View(-40.0, 30.0), "from the side")) if bevel else \
-        ((View(-90.0, 89.0), "from above"), (View(-50.0, 30.0), "from the side"))
-    for i, (view, label) in enumerate(views):
-        data = placed_png(assembly, models, outcomes, out_dir, view) if out_dir else None
+    views = assembly_views(assembly, models)
+    own = outcomes.get(f"assembly:{assembly.name}") if outcomes else None
+    drawn = (own.extra or {}).get("pictures") if own is not None else None
+    if not drawn or len(drawn) != len(views):
+        paths = stl_paths(assembly, outcomes, out_dir)
+        drawn = [placed_png(assembly, models, paths, view) if out_dir else None
+                 for view, _ in views]
+    for (view, label), data in zip(views, drawn):
         if data is not None:
             figs.append(f"<figure>{png_img(data, f'{assembly.name} {label}', 'placed')}"
                         f"<figcaption>placed parts {escape(label)}, shaded from the STL files"
