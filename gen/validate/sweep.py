@@ -222,18 +222,21 @@ def _split(ring: np.ndarray, inside, phase, drive_low: bool):
 
 
 def _chains(segments, sides):
-    """Join consecutive segments of the same side into linestrings."""
+    """Join consecutive segments of the same side into linestrings (a segment joins the one
+    before it when it starts where that one ends, to ``np.allclose``'s default tolerance)."""
+    if not segments:
+        return [], []
+    S = np.array([s for s, _ in segments], dtype=float)
+    E = np.array([e for _, e in segments], dtype=float)
+    side = np.asarray(sides, dtype=bool)
+    join = np.zeros(len(S), dtype=bool)
+    join[1:] = (side[1:] == side[:-1]) & np.all(
+        np.abs(E[:-1] - S[1:]) <= 1e-8 + 1e-5 * np.abs(S[1:]), axis=1)
+    starts = np.flatnonzero(~join)
+    ends = np.append(starts[1:], len(S))
     out = {True: [], False: []}
-    cur, cur_side = None, None
-    for (s, e), side in zip(segments, sides):
-        if cur is not None and side == cur_side and np.allclose(cur[-1], s):
-            cur.append(e)
-            continue
-        if cur is not None:
-            out[cur_side].append(shapely.linestrings(np.array(cur)))
-        cur, cur_side = [s, e], side
-    if cur is not None:
-        out[cur_side].append(shapely.linestrings(np.array(cur)))
+    for a, b in zip(starts, ends):
+        out[bool(side[a])].append(shapely.linestrings(np.vstack([S[a:a + 1], E[a:b]])))
     return out[True], out[False]
 
 
