@@ -100,9 +100,15 @@ def share_geometry(data: bytes) -> bytes:
             return i
         rep[i] = i                        # guards a cycle (none in geometry)
         body = bodies[i]
-        if b"#" in body:
-            body = _REF.sub(lambda m: b"#%d" % representative(int(m.group(1))), body)
-        rep[i] = seen.setdefault(body.translate(None, b" \t\r\n"), i)
+        if not refs[i]:
+            key = body.translate(None, b" \t\r\n")
+        elif plain[i]:      # the text with every reference blanked, and the references' values
+            key = (_REF.sub(b"#", body).translate(None, b" \t\r\n"),
+                   tuple(representative(r) for r in refs[i]))
+        else:
+            key = _REF.sub(lambda m: b"#%d" % representative(int(m.group(1))),
+                           body).translate(None, b" \t\r\n")
+        rep[i] = seen.setdefault(key, i)
         return rep[i]
 
     for i, _ in ents:
