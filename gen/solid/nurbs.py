@@ -12,7 +12,7 @@ from gen.errors import GeometryError
 from gen.geometry.bspline_fit import fit_curve
 from gen.geometry.section import Arc, Exact, Line, Loop, Spline, signed_area
 
-from gen.solid.kernel import JUNCTION_GAP, KERNEL_TOL, SPLINE_FIT, occ
+from gen.solid.kernel import JUNCTION_GAP, SPLINE_FIT, occ
 
 #: largest distance (mm) of a section B-spline from the dense samples of the exact curve it
 #: is fitted to: under SPLINE_FIT, so that between two checked samples (EXACT_SAMPLES per
@@ -164,11 +164,3 @@ def loop_nurbs(loop: Loop, ccw: bool) -> list:
     for i in range(len(out)):  # one junction point, bit for bit, per pair of curves
         out[i].poles[0] = out[i - 1].poles[-1]
     return out
-
-
-def rotation_invariant(loop: Loop) -> bool:
-    """A circle (or arcs of one circle) about the axis: unchanged by any twist."""
-    cs = loop.curves
-    return all(isinstance(c, Arc) and math.hypot(*c.center) < KERNEL_TOL
-               and abs(c.radius - cs[0].radius) < KERNEL_TOL for c in cs)
-

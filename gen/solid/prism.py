@@ -31,7 +31,8 @@ from gen.solid.faces import Builder, Track, lateral_shell
 from gen.solid.stack import stack_shell
 from gen.solid.kernel import HELIX_FIT, KERNEL_TOL  # noqa: F401  (HELIX_FIT re-exported)
 from gen.solid.kernel import as_solid, check_solid, occ
-from gen.solid.nurbs import loop_nurbs, oriented_curves, rotation_invariant, section_spline_nurbs
+from gen.geometry.stack import fixed_loop
+from gen.solid.nurbs import loop_nurbs, oriented_curves, section_spline_nurbs
 
 
 def _curve_edge(bld: Builder, c, v0, v1, p0, p1, z: float):
@@ -113,7 +114,7 @@ def _tracks(prism: Prism, extra_holes=()) -> list:
     specs += [(h, False, False) for h in prism.section.holes]
     specs += [(h, False, True) for h in extra_holes]
     for loop, ccw, straight in specs:
-        if prism.shear == 0.0 and rotation_invariant(loop):
+        if prism.shear == 0.0 and fixed_loop(loop):
             straight = True
         curves = loop_nurbs(loop, ccw)
         rho = max(float(np.max(np.hypot(nb.poles[:, 0], nb.poles[:, 1]))) for nb in curves)

@@ -8,10 +8,10 @@ backwards, as a hole). All edges are shared by construction, as in :mod:`gen.sol
 
 from __future__ import annotations
 
-from gen.geometry.stack import StackLayout
+from gen.geometry.stack import StackLayout, fixed_loop
 
 from gen.solid.faces import Builder, Track, level_rows, planar_face, track_faces
-from gen.solid.nurbs import loop_nurbs, rotation_invariant
+from gen.solid.nurbs import loop_nurbs
 
 
 def _rho(curves) -> float:
@@ -27,7 +27,7 @@ def stack_shell(layers, layout: StackLayout):
     outer = []   # per layer: (track, rows by level)
     for p in layers:
         curves = loop_nurbs(p.section.outer, True)
-        moving = not (p.straight or rotation_invariant(p.section.outer))
+        moving = not (p.straight or fixed_loop(p.section.outer))
         tr = Track(curves, p if moving else None, _rho(curves))
         levels = tr.levels(p.z0, p.z1)
         per = level_rows(bld, tr, levels)

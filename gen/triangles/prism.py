@@ -34,6 +34,7 @@ import numpy as np
 from gen.errors import GeometryError
 from gen.geometry.body import Body, Prism, plan_cuts
 from gen.geometry.section import Arc, Line, Loop, Spline, signed_area
+from gen.geometry.stack import fixed_loop
 from gen.triangles.twist_walls import chord_terms, column_counts, stage_walls, strip_steps
 
 #: share of the chordal tolerance spent on the section polygon of a straight or sheared prism
@@ -136,13 +137,14 @@ def _loop_walls(prism: Prism, poly: np.ndarray, moving: bool, tol_t: float, base
     n = len(poly)
     stages = prism.stages() if moving else ((prism.z0, prism.z1, 1.0),)
     counts, leads, known = [], [], {}
+    c_k = chord_terms(poly)[3] * prism.twist if moving else None  # sign of c·k per strip
     for za, zb, sign in stages:
         theta = abs(prism.twist) * (zb - za) if moving else 0.0
         if theta > 0.0:
             if theta not in known:   # the two halves of a chevron turn alike
                 known[theta] = column_counts(*strip_steps(poly, theta, tol_t), theta)
             counts.append(known[theta])
-            leads.append(chord_terms(poly)[3] * sign * prism.twist > 0.0)
+            leads.append(c_k * sign > 0.0)
         else:
             counts.append(np.ones(n, dtype=np.int64))
             leads.append(np.zeros(n, dtype=bool))
@@ -180,7 +182,7 @@ def _prism_arrays(prism: Prism, tol: float, extra_holes=()):
     loops = [(loop_polygon(prism.section.outer, tol_p, True), True)]
     # a round hole on the axis is its own image under any turn: its wall stays straight
     # (exact along z, one step) and needs no twist share; shear moves it like the rest
-    loops += [(loop_polygon(h, tol_p, False), not (_on_axis(h) and prism.shear == 0.0))
+    loops += [(loop_polygon(h, tol_p, False), not (fixed_loop(h) and prism.shear == 0.0))
               for h in prism.section.holes]
     loops += [(loop_polygon(h, tol_p, False), False) for h in extra_holes]
     verts, tris, base = [], [], 0
@@ -202,12 +204,6 @@ def _prism_arrays(prism: Prism, tol: float, extra_holes=()):
         [prism.place(p, prism.z1) if mv else p for p, mv in loops])
     tris.append(last[top_cap])
     return np.concatenate(verts), np.concatenate(tris)
-
-
-def _on_axis(loop: Loop) -> bool:
-    """True for a full circle centred on the Z axis."""
-    return (loop.circle and len(loop.curves) == 1
-            and float(np.hypot(*np.asarray(loop.curves[0].center, dtype=float))) == 0.0)
 
 
 def _triangulate(polys) -> np.ndarray:
