@@ -145,14 +145,12 @@ def schedule(groups, models, assemblies=()) -> list:
     """Groups of equal parts in the order to build them: longest first (:func:`geometry_cost`
     × group size), where a part an assembly places counts the assembly's cost too (its parts
     together), so that the assembly STEP can start while the other parts build; ties by name."""
-    def cost(group):
-        return geometry_cost(models[group[0]]) * len(group)
-
-    by_name = {n: g for g in groups for n in g}
-    extra = {}
+    own = {tuple(g): geometry_cost(models[g[0]]) * len(g) for g in groups}
+    cost = dict(own)
+    by_name = {n: tuple(g) for g in groups for n in g}
     for asm in assemblies:
-        mine = {tuple(by_name[p]) for p in asm.poses if p in by_name}
-        total = sum(cost(list(g)) for g in mine)
+        mine = {by_name[p] for p in asm.poses if p in by_name}
+        total = sum(own[g] for g in mine)
         for g in mine:
-            extra[g] = extra.get(g, 0.0) + total
-    return sorted(groups, key=lambda g: (-(cost(g) + extra.get(tuple(g), 0.0)), g[0]))
+            cost[g] += total
+    return sorted(groups, key=lambda g: (-cost[tuple(g)], g[0]))

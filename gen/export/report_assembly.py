@@ -30,15 +30,19 @@ def stl_paths(assembly, outcomes, out_dir) -> dict:
     return paths
 
 
+def _bevel(assembly, models) -> bool:
+    """A bevel set: one of its members is a bevel gear."""
+    return any(models[n].role.value == "bevel_gear" for n in assembly.parts.values()
+               if n in models)
+
+
 def assembly_views(assembly, models) -> tuple:
     """The (view, label) pairs an assembly is shaded from: a bevel set along its output axis
     and from the side, any other set from above and from the side."""
     from gen.export.report_raster import View
 
-    bevel = any(models[n].role.value == "bevel_gear" for n in assembly.parts.values()
-                if n in models)
     return ((View(-90.0, 89.0), "along the output axis"),
-            (View(-40.0, 30.0), "from the side")) if bevel else \
+            (View(-40.0, 30.0), "from the side")) if _bevel(assembly, models) else \
         ((View(-90.0, 89.0), "from above"), (View(-50.0, 30.0), "from the side"))
 
 
@@ -254,8 +258,7 @@ def kinematics_rows(assembly):
 def assembly_html(assembly, models, outcomes, out_dir, aid: str) -> str:
     """The figures and table of one assembly (without its heading)."""
     figs = []
-    bevel = any(models[n].role.value == "bevel_gear" for n in assembly.parts.values()
-                if n in models)
+    bevel = _bevel(assembly, models)
     views = assembly_views(assembly, models)
     own = outcomes.get(f"assembly:{assembly.name}") if outcomes else None
     drawn = (own.extra or {}).get("pictures") if own is not None else None
