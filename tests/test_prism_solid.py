@@ -109,8 +109,23 @@ def test_herringbone_gear(gear20, tmp_path):
     # Cavalieri (computed): equal volumes, up to the integration noise (~1e-5 relative)
     assert precise_volume(s) == pytest.approx(precise_volume(straight), rel=2e-5)
     worst, checked = helicoid_error(s, pr, min_radius=10.0)
-    assert checked == 2 * 6 * 20  # both halves of every flank, tip and root face
+    assert checked == 2 * 4 * 20  # both halves of every flank face (fillet and involute)
     assert worst <= HELIX_FIT
+    # tip and root lands, and the bore, are exact cylinders about the axis: radius r_a,
+    # r_f (ISO 21771, computed by gear_sizes) and 4 mm, read from the faces' own geometry
+    radii = sorted(round(cylinder_radius(f), 12) for f in s.Faces() if f.geomType() == "CYLINDER")
+    assert radii == sorted([round(sz.rf, 12)] * 40 + [round(sz.ra, 12)] * 40 + [4.0] * 4)
+
+
+def cylinder_radius(face) -> float:
+    """Radius of a cylindrical face, whose axis must be the Z axis."""
+    from OCP.BRepAdaptor import BRepAdaptor_Surface
+
+    cyl = BRepAdaptor_Surface(face.wrapped).Cylinder()
+    ax = cyl.Axis()
+    assert ax.Direction().IsParallel(cq.Vector(0, 0, 1).toDir(), 1e-15)
+    assert math.hypot(ax.Location().X(), ax.Location().Y()) < 1e-15
+    return cyl.Radius()
 
 
 def helicoid_error(s, pr: Prism, min_radius: float):
@@ -198,3 +213,27 @@ def test_herringbone_rack_and_boolean_fallbacks(gear20):
     s = body_solid(body)
     assert s.isValid() and solid_count(s) == 1
     assert body_triangles(body).volume == pytest.approx(s.Volume(), rel=2e-3)
+
+
+def test_arcs_become_cylinders_only_where_they_stay_on_one():
+    """An arc turned about its own centre sweeps a cylinder; off the axis it sweeps a helical
+    tube, and a face wrapping more than half a turn stays a B-spline (the kernel's booleans
+    lose faces whose parameters exceed the cylinder's period: seen as an empty cut)."""
+    from gen.solid.faces import Track, circle_arc
+    from gen.solid.nurbs import loop_nurbs
+
+    sec = Section(circle(5.0))
+    on_axis = loop_nurbs(sec.outer, True)[0]                  # a quarter circle about 0
+    off = loop_nurbs(Loop((Arc((1.0, 0.0), 5.0, 0.0, 2 * math.pi),)), True)[0]
+    assert on_axis.arc is not None and off.arc is not None
+
+    def arc_of(nb, twist, chevron=False):
+        pr = Prism(sec, 0.0, 10.0, twist=twist, chevron=chevron)
+        tr = Track([nb], None if twist == 0.0 else pr, 5.0)
+        return circle_arc(tr, nb, tr.levels(0.0, 10.0))
+
+    assert arc_of(on_axis, 0.0) == on_axis.arc and arc_of(off, 0.0) == off.arc
+    assert arc_of(on_axis, 0.1) == on_axis.arc                # 1 rad + π/2 ≤ π
+    assert arc_of(on_axis, 0.1, chevron=True) == on_axis.arc  # 0.5 + π/2 ≤ π per stage
+    assert arc_of(on_axis, 0.2) is None                       # 2 rad + π/2 > π
+    assert arc_of(off, 0.01) is None                          # a turn about another point

@@ -109,3 +109,55 @@ def test_step_bytes_do_not_depend_on_the_writers_session_counters():
     assert b"NEXT_ASSEMBLY_USAGE_OCCURRENCE('1','wheel'" in na
     assert b"NEXT_ASSEMBLY_USAGE_OCCURRENCE('2','pin'" in na
     assert b"FILE_NAME('m','1970-01-01T00:00:00'" in na
+
+
+def _face_with_pcurve_of_edge(shift_u: float, lift: float):
+    """A 10 × 10 planar face whose bottom edge's curve on the face is moved along itself by
+    ``shift_u`` (the same points, other parameters) and whose 3-D curve is raised ``lift``
+    off the plane."""
+    from OCP.BRep import BRep_Builder
+    from OCP.BRepBuilderAPI import BRepBuilderAPI_MakeEdge, BRepBuilderAPI_MakeFace, \
+        BRepBuilderAPI_MakePolygon
+    from OCP.Geom2d import Geom2d_Line
+    from OCP.gp import gp_Dir2d, gp_Pnt, gp_Pnt2d, gp_Pln
+    from OCP.TopAbs import TopAbs_EDGE
+    from OCP.TopExp import TopExp_Explorer
+    from OCP.TopoDS import TopoDS
+
+    poly = BRepBuilderAPI_MakePolygon(gp_Pnt(0, 0, 0), gp_Pnt(10, 0, 0), gp_Pnt(10, 10, 0),
+                                      gp_Pnt(0, 10, 0), True)
+    face = BRepBuilderAPI_MakeFace(gp_Pln(), poly.Wire()).Face()
+    ex = TopExp_Explorer(face, TopAbs_EDGE)
+    edge = TopoDS.Edge_s(ex.Current())                         # (0,0,0) → (10,0,0)
+    b = BRep_Builder()
+    if lift:
+        from OCP.Geom import Geom_Line
+        from OCP.gp import gp_Dir
+
+        b.UpdateEdge(edge, Geom_Line(gp_Pnt(0, 0, lift), gp_Dir(1, 0, 0)), 1e-7)
+    b.UpdateEdge(edge, Geom2d_Line(gp_Pnt2d(shift_u, 0), gp_Dir2d(1, 0)), face, 1e-7)
+    return face
+
+
+def test_curve_on_face_by_distance_where_parameters_differ():
+    from gen.export.shape_analysis import _curve_on_surface, _distance_to_face_surface
+    from OCP.TopAbs import TopAbs_EDGE
+    from OCP.TopExp import TopExp_Explorer
+    from OCP.TopoDS import TopoDS
+
+    def first_edge(face):
+        return TopoDS.Edge_s(TopExp_Explorer(face, TopAbs_EDGE).Current())
+
+    # same points, parameters shifted by 1e-3: equal-parameter distance 1e-3 mm (computed),
+    # distance from the plane 0: the edge lies on its face and is not counted off it
+    moved = _face_with_pcurve_of_edge(1e-3, 0.0)
+    assert _curve_on_surface(first_edge(moved), moved) == pytest.approx(1e-3, rel=1e-4)
+    assert _distance_to_face_surface(first_edge(moved), moved) < 1e-12
+    rep = analyse_shape(moved)
+    assert rep.edges_off_surface == 0 and rep.max_curve_on_surface < 1e-12
+    # the 3-D curve 1e-3 mm above the plane: off by both measures, and counted
+    lifted = _face_with_pcurve_of_edge(1e-3, 1e-3)
+    assert _distance_to_face_surface(first_edge(lifted), lifted) == pytest.approx(1e-3, rel=1e-9)
+    rep = analyse_shape(lifted)
+    assert rep.edges_off_surface == 1
+    assert rep.max_curve_on_surface == pytest.approx(1e-3, rel=1e-4)

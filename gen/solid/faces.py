@@ -9,6 +9,13 @@ A inverting the collocation matrix of a clamped cubic B-spline in v = z at its G
 z_k. Adjacent faces share their boundary iso-curves as one edge with line pcurves on both, so
 the shell is closed by construction; the herringbone halves share the mid-section edges, and
 the caps are planes bounded by the same edges.
+
+An arc about the twist axis (a tip or root land, a bore) is the exception: turned about its
+own centre it stays on one cylinder, so its face is that exact cylinder, bounded by circle
+edges at the levels and by the neighbouring faces' fitted helix edges, whose tolerance is
+raised to their fit error at that radius (≤ HELIX_FIT; 5.4e-6 mm at the tip of the 40-tooth
+herringbone of the benchmarks). CAD programs then measure tip, root and bore diameters
+directly, and the file is lighter (:func:`circle_arc` says when).
 """
 
 from __future__ import annotations
@@ -78,8 +85,35 @@ class Builder:
             return o.Geom2d_BSplineCurve(P, self.reals(nb.weights), K, M, nb.deg)
         return o.Geom2d_BSplineCurve(P, K, M, nb.deg)
 
+    def circle2d(self, arc):
+        """Curve on the plane z = const of a circle edge (``arc`` as in :func:`level_rows`):
+        the same parameter (angle, clockwise where ``sense`` is −1)."""
+        o = self.o
+        cx, cy, R, sense = arc[:4]
+        return o.Geom2d_Circle(o.gp_Ax22d(o.gp_Pnt2d(cx, cy), o.gp_Dir2d(1.0, 0.0),
+                                          o.gp_Dir2d(0.0, sense)), R)
+
+    def line2d(self, p, q, t0, t1):
+        """Straight curve on a surface from uv point p (parameter t0) to q (t1)."""
+        o = self.o
+        P = o.TColgp_Array1OfPnt2d(1, 2)
+        P.SetValue(1, o.gp_Pnt2d(float(p[0]), float(p[1])))
+        P.SetValue(2, o.gp_Pnt2d(float(q[0]), float(q[1])))
+        return o.Geom2d_BSplineCurve(P, self.reals([t0, t1]), self.ints([2, 2]), 1)
+
     def pcurve(self, edge, curve2d, surface):
-        self.b.UpdateEdge(edge, curve2d, surface, self.loc, KERNEL_TOL)
+        tol = max(KERNEL_TOL, self.o.BRep_Tool.Tolerance_s(edge))
+        self.b.UpdateEdge(edge, curve2d, surface, self.loc, tol)
+
+    def widen(self, edge, tol: float) -> None:
+        """Raise the tolerance of ``edge`` and its two vertices to at least ``tol``."""
+        o = self.o
+        if tol <= o.BRep_Tool.Tolerance_s(edge):
+            return
+        self.b.UpdateEdge(edge, float(tol))
+        for v in (o.TopExp.FirstVertex_s(edge), o.TopExp.LastVertex_s(edge)):
+            if o.BRep_Tool.Tolerance_s(v) < tol:
+                self.b.UpdateVertex(v, float(tol))
 
     def iso_line(self, u=None, v=None):
         o = self.o
@@ -145,30 +179,68 @@ class Track:
         return math.cos(float(th)), math.sin(float(th)), float(s)
 
 
+def circle_arc(tr: Track, nb: Nurbs, levels):
+    """(cx, cy, R, a0, a1) of an arc curve that stays a circular arc about a fixed axis
+    wherever ``tr`` carries it between ``levels`` (a straight track, or a turn about its
+    centre at the origin without shear), else None. A face that would wrap more than half a
+    turn of its cylinder (a long helical groove) stays a B-spline: the kernel's booleans lose
+    faces whose parameter range exceeds the cylinder's period (measured: an empty cut)."""
+    if nb.arc is None:
+        return None
+    cx, cy, _, a0, a1 = nb.arc
+    if tr.prism is None:
+        return nb.arc
+    if tr.prism.shear != 0.0 or math.hypot(cx, cy) > 1e-12:
+        return None
+    turn = max(abs(tr.theta(b) - tr.theta(a)) for a, b in zip(levels[:-1], levels[1:]))
+    return nb.arc if turn + abs(a1 - a0) <= math.pi else None
+
+
 def level_rows(bld: Builder, tr: Track, levels) -> dict:
     """Edges of ``tr``'s curves at each level: {level index: [(edge, pole x, pole y, start
-    vertex), ...]}; consecutive curves share their vertices."""
+    vertex, 3-D curve, arc), ...]}; consecutive curves share their vertices. ``arc``: for an
+    arc carried as a circle (:func:`circle_arc`), (cx, cy, R, sense, p0, p1) with the edge's
+    parameter range p0…p1 (angle, ``sense`` −1: measured clockwise), else None."""
     per = {}
+    arcs = [circle_arc(tr, nb, levels) for nb in tr.curves]
     for k, z in enumerate(levels):
         c, s, t = tr.at(z)
+        th = tr.theta(z)
         verts = []
-        for nb in tr.curves:
+        for i, nb in enumerate(tr.curves):
             x, y = place(nb.poles[:1], c, s, t)
-            verts.append(bld.vertex(x[0, 0], y[0, 0], z))
+            tol = KERNEL_TOL
+            for a, end in ((arcs[i], 3), (arcs[i - 1], 4)):   # a circle ends where its angle says
+                if a is not None:
+                    ang = a[end] + th
+                    tol = max(tol, 2.0 * math.hypot(a[0] + a[2] * math.cos(ang) - x[0, 0],
+                                                    a[1] + a[2] * math.sin(ang) - y[0, 0]))
+            verts.append(bld.vertex(x[0, 0], y[0, 0], z, tol))
         row = []
         for i, nb in enumerate(tr.curves):
             x, y = place(nb.poles, c, s, t)
             x, y = x[:, 0], y[:, 0]
-            if nb.deg == 1 and len(x) == 2 and nb.weights is None:   # a line, parameter =
-                o = bld.o                                             # length (as its knots)
-                d = math.hypot(x[1] - x[0], y[1] - y[0])
+            o = bld.o
+            arc = None
+            if arcs[i] is not None:
+                cx, cy, R, a0, a1 = arcs[i]
+                sense = 1.0 if a1 > a0 else -1.0
+                ax = o.gp_Ax2(o.gp_Pnt(cx, cy, float(z)), o.gp_Dir(0.0, 0.0, sense),
+                              o.gp_Dir(1.0, 0.0, 0.0))
+                curve = o.Geom_Circle(ax, R)
+                arc = (cx, cy, R, sense, sense * (a0 + th), sense * (a1 + th))
+                t0, t1 = arc[4], arc[5]
+            elif nb.deg == 1 and len(x) == 2 and nb.weights is None:   # a line, parameter =
+                d = math.hypot(x[1] - x[0], y[1] - y[0])                # length (as its knots)
                 curve = o.Geom_Line(o.gp_Pnt(float(x[0]), float(y[0]), float(z)),
                                     o.gp_Dir(float((x[1] - x[0]) / d), float((y[1] - y[0]) / d),
                                              0.0))
+                t0, t1 = nb.knots[0], nb.knots[-1]
             else:
                 curve = bld.curve3d(nb, x, y, z)
-            e = bld.edge(curve, verts[i], verts[(i + 1) % len(verts)], nb.knots[0], nb.knots[-1])
-            row.append((e, x, y, verts[i], curve))
+                t0, t1 = nb.knots[0], nb.knots[-1]
+            e = bld.edge(curve, verts[i], verts[(i + 1) % len(verts)], t0, t1)
+            row.append((e, x, y, verts[i], curve, arc))
         per[k] = row
     return per
 
@@ -188,8 +260,8 @@ def planar_face(bld: Builder, z: float, loops, up: bool):
     pl = bld.plane(z)
     wires = []
     for tr, row, forward in loops:
-        for (e, x, y, *_), nb in zip(row, tr.curves):
-            bld.pcurve(e, bld.curve2d(nb, x, y), pl)
+        for (e, x, y, _, _, arc), nb in zip(row, tr.curves):
+            bld.pcurve(e, bld.circle2d(arc) if arc else bld.curve2d(nb, x, y), pl)
         edges = [(e, True) for e, *_ in row]
         wires.append(bld.wire(edges if forward else [(e, False) for e, _ in edges[::-1]]))
     f = bld.face(pl, wires)
@@ -243,6 +315,17 @@ def _stage_faces(bld: Builder, tr: Track, za: float, zb: float, low, high):
                              za, zb))
     faces = []
     for i, nb in enumerate(tr.curves):
+        if low[i][5] is not None:   # a circle carried about its centre: a cylinder
+            el, er = vert[i], vert[(i + 1) % n]
+            for e, v in ((el, low[i][3]), (er, low[(i + 1) % n][3])):
+                # the fitted helix leaves the exact one (the cylinder's line) by ≤ fit.error
+                # per mm of radius; its end poles sit on the circle's ends within the vertex
+                # tolerance
+                gap = bld.o.BRep_Tool.Tolerance_s(v)
+                bld.widen(e, 1.25 * ((low[i][5][2] + gap) * fit.error + gap))
+            faces.append(cylinder_face(bld, low[i][5], high[i][5], low[i][0], high[i][0],
+                                       el, er, za, zb, za, zb))
+            continue
         X, Y = place(nb.poles, Mc[None, :], Ms[None, :], Tv[None, :])
         nu = len(nb.poles)
         P = o.TColgp_Array2OfPnt(1, nu, 1, nv)
@@ -286,6 +369,10 @@ def _extruded_faces(bld: Builder, tr: Track, za: float, zb: float, low, high) ->
         vert.append(bld.edge(line, low[i][3], high[i][3], 0.0, h))
     faces = []
     for i, nb in enumerate(tr.curves):
+        if low[i][5] is not None:
+            faces.append(cylinder_face(bld, low[i][5], high[i][5], low[i][0], high[i][0],
+                                       vert[i], vert[(i + 1) % n], za, zb, 0.0, h))
+            continue
         S = o.Geom_SurfaceOfLinearExtrusion(low[i][4], up)
         u0, u1 = nb.knots[0], nb.knots[-1]
         eb, et = low[i][0], high[i][0]
@@ -296,3 +383,23 @@ def _extruded_faces(bld: Builder, tr: Track, za: float, zb: float, low, high) ->
         bld.pcurve(er, bld.iso_line(u=u1), S)
         faces.append(bld.face(S, [bld.wire([(eb, True), (er, True), (et, False), (el, False)])]))
     return faces
+
+
+def cylinder_face(bld: Builder, lo, hi, eb, et, el, er, za, zb, ta, tb):
+    """Lateral face of an arc carried from z_a to z_b by a turn about its centre (or not
+    moved): part of the cylinder through both circle edges ``eb`` (bottom), ``et`` (top),
+    bounded by ``el`` (from the arc's start at z_a to its start at z_b, parameters ta…tb) and
+    ``er`` (from end to end). ``lo``, ``hi``: the circles as in :func:`level_rows`. The
+    cylinder's u is the angle (counter-clockwise), v the height; a clockwise arc (a hole's)
+    gives the reversed face, so the normal points away from the material as on every face."""
+    o = bld.o
+    cx, cy, R, sense = lo[:4]
+    S = o.Geom_CylindricalSurface(o.gp_Ax3(o.gp_Pnt(cx, cy, 0.0), o.gp_Dir(0.0, 0.0, 1.0),
+                                           o.gp_Dir(1.0, 0.0, 0.0)), R)
+    bld.pcurve(eb, o.Geom2d_Line(o.gp_Pnt2d(0.0, float(za)), o.gp_Dir2d(sense, 0.0)), S)
+    bld.pcurve(et, o.Geom2d_Line(o.gp_Pnt2d(0.0, float(zb)), o.gp_Dir2d(sense, 0.0)), S)
+    bld.pcurve(el, bld.line2d((sense * lo[4], za), (sense * hi[4], zb), ta, tb), S)
+    bld.pcurve(er, bld.line2d((sense * lo[5], za), (sense * hi[5], zb), ta, tb), S)
+    if sense > 0:
+        return bld.face(S, [bld.wire([(eb, True), (er, True), (et, False), (el, False)])])
+    return bld.face(S, [bld.wire([(el, True), (et, True), (er, False), (eb, False)])]).Reversed()

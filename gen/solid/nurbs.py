@@ -30,6 +30,9 @@ class Nurbs:
     weights: np.ndarray | None
     knots: np.ndarray
     mults: list
+    #: the exact arc (center x, center y, radius, a0, a1) when the curve is one: faces
+    #: builders then use a circle and a cylinder instead of the rational form
+    arc: tuple | None = None
 
 
 def spline_nurbs(points: np.ndarray) -> Nurbs:
@@ -105,7 +108,9 @@ def _arc_nurbs(a: Arc) -> Nurbs:
     w = np.ones(2 * n + 1)
     w[1::2] = math.cos(0.5 * d)
     knots = np.arange(n + 1, dtype=float) * abs(d) * a.radius  # parameter ≈ arc length
-    return Nurbs(2, poles, w, knots, [3] + [2] * (n - 1) + [3])
+    return Nurbs(2, poles, w, knots, [3] + [2] * (n - 1) + [3],
+                 (float(a.center[0]), float(a.center[1]), float(a.radius), float(a.a0),
+                  float(a.a1)))
 
 
 def _line_nurbs(seg: Line) -> Nurbs:
