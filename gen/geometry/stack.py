@@ -1,8 +1,8 @@
 """When a body's prisms form a stack that can be built as one shell, without a boolean union.
 
 A stack is prisms placed end to end along the axis (each one's top height is the next one's
-bottom), every one carrying the same holes, with the holes fixed (circles about the axis, or
-every prism straight), and at each junction one prism's outer loop lying strictly inside the
+bottom), every one carrying the same holes, with the holes straight (circles about the axis,
+straight cuts the plan placed, or any hole where every prism is straight), and at each junction one prism's outer loop lying strictly inside the
 other's. Then the union's boundary is known in closed form: the lateral faces of every prism,
 one lateral face per hole from the bottom to the top, the two end caps, and at each junction a
 planar ring between the wider outer loop and the narrower one. Gears with a hub, herringbone
@@ -68,7 +68,10 @@ def stack_layout(body: Body, plan: CutPlan) -> StackLayout | None:
     if any(k != keys[0] for k in keys[1:]):
         return None
     holes = hole_sets[0]
-    if not all(p.straight for p in layers) and not all(fixed_loop(h) for h in holes):
+    # the shell carries every hole straight: a hole of a moving layer's own section turns
+    # with it, so it must look the same at any turn; straight cuts placed by the plan (a D-bore
+    # or keyway through a helical groove) are straight by definition
+    if not all(fixed_loop(h) for p in layers if not p.straight for h in p.section.holes):
         return None
     wider = []
     for a, b in zip(layers, layers[1:]):

@@ -25,6 +25,7 @@ from gen.geometry.body import Body, Prism, RadialHole
 from gen.geometry.drum import (MIN_RATIO, capstan_ratio, drum_section, drum_sizes, drum_twist,
                                joint_drive)
 from gen.geometry.section import Section, circle
+from gen.geometry.stack import fixed_loop
 from gen.kinds import common_keys as K
 from gen.kinds.base import Formula, Part, Role
 from gen.kinds.cylgear import bore_of
@@ -162,7 +163,7 @@ def make(name, values, where):
     chord = values["chord_tolerance"]
     findings = []
     bore = bore_of(values)
-    holes, round_hole = (), ()
+    holes, round_hole, straight_cuts = (), (), ()
     r_bore = 0.0
     if bore is not None:
         try:
@@ -170,7 +171,11 @@ def make(name, values, where):
         except GeometryError as exc:
             raise where.error("bore", str(exc), values["bore"]) from None
         r_bore = bore.outer_radius()
-        round_hole = (circle(r_bore),)  # the twisted band keeps a round hole
+        round_hole = holes
+        if not fixed_loop(holes[0]):
+            # a D-flat or keyway would turn with the grooved band's section: it is cut
+            # straight through every layer instead (a plain hole of each, no boolean)
+            straight_cuts, holes, round_hole = holes, (), ()
         if r_bore >= s.drum_diameter / 2.0 - 1.0:
             raise where.error("bore", f"the bore (radius {r_bore:.2f} mm) leaves under 1 mm "
                               f"below the groove bottom ({s.drum_diameter:g} mm)",
@@ -215,7 +220,8 @@ def make(name, values, where):
     radial += list(K.set_screw_holes(name, screw, hub, r_bore if bore is not None else None,
                                      bore is not None and bool(bore.flat or bore.keyway),
                                      findings))
-    body = Body(tuple(solids), radial_holes=tuple(radial))
+    body = Body(tuple(solids), tuple(Prism(Section(h), 0.0, z) for h in straight_cuts),
+                radial_holes=tuple(radial))
     poly = loop.polygon(chord)
     findings += drum_findings(name, measure_drum(poly, s), s, chord + TOL.size, "section")
     mu = values["friction"]
@@ -269,5 +275,6 @@ def make(name, values, where):
 
     return Part(name=name, kind=KIND, role=ROLE, values=values, shape=body, sizes=sizes,
                 findings=tuple(findings), formulas=FORMULAS, outline=poly,
-                section=Section(loop, round_hole), slice_checks=(slice_check,), chord_tol=chord,
+                section=Section(loop, round_hole + straight_cuts), slice_checks=(slice_check,),
+                chord_tol=chord,
                 data={"drum": s, "twist": twist, "band": (band0, band1), "anchor": z_anchor})

@@ -18,6 +18,7 @@ from gen.geometry.features import Bore
 from gen.geometry.gear_outline import gear_loop
 from gen.geometry.generate import generate_flank
 from gen.geometry.section import Section, circle
+from gen.geometry.stack import fixed_loop
 from gen.kinds.base import Formula, GearMate, Part, Role
 from gen.kinds import common_keys as K
 from gen.findings import ERROR, WARNING, Finding
@@ -70,7 +71,7 @@ def make_gear(name: str, values: dict, where, *, kind: str, beta: float = 0.0,
     loop = gear_loop(flank)
     poly = loop.polygon(values["chord_tolerance"])
     bore_r = None
-    holes = ()
+    holes, straight_cuts = (), ()
     if bore is not None:
         try:
             holes = (bore.loop(),)
@@ -95,6 +96,11 @@ def make_gear(name: str, values: dict, where, *, kind: str, beta: float = 0.0,
                                     f"not {z}", name, "tan β = Δθ·r_p/Δz", key="profile_shift"))
 
         twist = gear_twist(beta, sizes.rp, hand)
+        # a section's holes turn with it: only a round bore looks the same at every turn; a
+        # D-flat or keyway must stay straight for its shaft, so it is cut straight through
+        # the whole gear (plan_cuts makes it a plain hole of every layer, no boolean)
+        if holes and not fixed_loop(holes[0]):
+            straight_cuts, holes = holes, ()
         solids, extra = twisted_gear_body(Section(loop, holes), b, twist, chevron, groove,
                                           sizes.rf, holes, where)
         solids = list(solids)
@@ -111,7 +117,8 @@ def make_gear(name: str, values: dict, where, *, kind: str, beta: float = 0.0,
             findings.append(Finding(ERROR, "hub-too-thin", f"hub diameter {hub['diameter']:g} mm "
                                     "leaves no wall around the bore", name, "geometry", key="hub"))
         solids.append(Prism(Section(circle(hub["diameter"] / 2.0), holes), b, b + hub["length"]))
-    body = Body(tuple(solids))
+    top = solids[-1].z1
+    body = Body(tuple(solids), tuple(Prism(Section(h), 0.0, top) for h in straight_cuts))
     part = _part(name, kind, values, body, sizes, findings, poly, flank, beta, rack,
                  hand=hand, chevron=chevron)
     checks = list(part.slice_checks)
@@ -122,7 +129,7 @@ def make_gear(name: str, values: dict, where, *, kind: str, beta: float = 0.0,
 
         checks.append(helix_slice_check(name, sizes, twist, chevron, b, groove,
                                         flank.r_junction))
-    return part.with_(section=solids[0].section, slice_checks=tuple(checks))
+    return part.with_(section=Section(loop, holes + straight_cuts), slice_checks=tuple(checks))
 
 
 def min_feature_findings(name, fit, flank, sizes, bore_r) -> list:
