@@ -2,11 +2,13 @@
 
 A stack is prisms placed end to end along the axis (each one's top height is the next one's
 bottom), every one carrying the same holes, with the holes straight (circles about the axis,
-straight cuts the plan placed, or any hole where every prism is straight), and at each junction one prism's outer loop lying strictly inside the
-other's. Then the union's boundary is known in closed form: the lateral faces of every prism,
-one lateral face per hole from the bottom to the top, the two end caps, and at each junction a
-planar ring between the wider outer loop and the narrower one. Gears with a hub, herringbone
-gears with a middle groove, flanged pulleys and flanged cable drums are stacks.
+straight cuts the plan placed, or any hole where every prism is straight), and at each
+junction one prism's outer loop lying strictly inside the other's. Then the union's boundary
+is known in closed form: the lateral faces of every prism, one lateral face per hole from the
+bottom to the top, the two end caps, and at each junction a planar ring between the wider
+outer loop and the narrower one. Gears with a hub, flanged pulleys and flanged cable drums are
+stacks; a herringbone's middle groove cut to the root circle is not (its core touches the
+root arcs, so no ring lies between them) and goes to a boolean union.
 
 numpy only; the B-rep is made in :mod:`gen.solid.stack`.
 """
