@@ -128,7 +128,7 @@ def make_gear(name: str, values: dict, where, *, kind: str, beta: float = 0.0,
         from gen.kinds.helical import helix_slice_check
 
         checks.append(helix_slice_check(name, sizes, twist, chevron, b, groove,
-                                        flank.r_junction))
+                                        flank.r_junction, values["chord_tolerance"]))
     return part.with_(section=Section(loop, holes + straight_cuts), slice_checks=tuple(checks))
 
 

@@ -57,14 +57,16 @@ def helix_measure_radius(sizes, r_form: float) -> float:
 
 
 def helix_slice_check(name, sizes, twist: float, chevron: bool, face: float,
-                      groove: float = 0.0, r_form: float = 0.0):
+                      groove: float = 0.0, r_form: float = 0.0, chord: float = 0.0):
     """Measure the helix on slices of the exported mesh: the turn between two heights is
-    Δz·tan β / r_p within 0.05°, and a herringbone's halves mirror about the mid-plane."""
+    Δz·tan β / r_p within 0.05° plus what the mesh's ``chord`` tolerance (mm) allows, and a
+    herringbone's halves mirror about the mid-plane."""
     from gen.errors import GeometryError
-    from gen.validate.helix import check_gear_helix, check_herringbone_mirror
+    from gen.validate.helix import check_gear_helix, check_herringbone_mirror, mesh_angle_tol
 
     beta_signed = math.copysign(sizes.beta, twist)
     r_m = helix_measure_radius(sizes, r_form)
+    tol = mesh_angle_tol(chord, r_m)
 
     def check(polys_at):
         try:
@@ -81,13 +83,13 @@ def helix_slice_check(name, sizes, twist: float, chevron: bool, face: float,
         pb = max(polys_at(z_b), key=len)
         out += [Finding(f.severity, f.code, f.message, name, f.source, key=f.key)
                 for f in check_gear_helix(pa, pb, z_b - z_a, beta_signed, sizes.rp, subject=name,
-                                          r_measure=r_m)]
+                                          tol=tol, r_measure=r_m)]
         if chevron:
             zm = face / 2.0
             pairs = [(max(polys_at(zm - t), key=len), max(polys_at(zm + t), key=len))
                      for t in (groove / 2.0 + 0.2 * span, groove / 2.0 + 0.8 * span)]
             out += [Finding(f.severity, f.code, f.message, name, f.source, key=f.key)
-                    for f in check_herringbone_mirror(pairs, r_m, subject=name)]
+                    for f in check_herringbone_mirror(pairs, r_m, subject=name, tol=tol)]
         return out
 
     return check

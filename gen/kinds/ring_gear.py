@@ -131,7 +131,8 @@ def make_ring(name: str, values: dict, where, *, kind: str = KIND) -> Part:
     checks = [ring_slice_check(name, sizes, z_slice, chord + TOL.slice_extra,
                                2 * chord + TOL.slice_extra + TOL.thickness_rel * m, in_involute)]
     if beta:
-        checks.append(_helix_check(name, sizes, twist, chevron, b, values["groove"]))
+        checks.append(_helix_check(name, sizes, twist, chevron, b, values["groove"],
+                                   chord))
     dxf = Section(section.outer, section.holes + tuple(bolts))
     manifest = {
         "module": sizes.mn, "teeth": z, "pressure_angle": math.degrees(sizes.alpha_n),
@@ -246,25 +247,28 @@ def _prisms(section, b, twist, chevron, groove, rim_d, sizes, bolts, where):
     return list(solids), cuts
 
 
-def _helix_check(name, sizes, twist, chevron, face, groove):
-    """The helix measured on slices of the toothed hole (turn between two heights)."""
-    from gen.validate.helix import check_gear_helix, check_herringbone_mirror
+def _helix_check(name, sizes, twist, chevron, face, groove, chord):
+    """The helix measured on slices of the toothed hole (turn between two heights), within
+    what the mesh's ``chord`` tolerance (mm) allows."""
+    from gen.validate.helix import check_gear_helix, check_herringbone_mirror, mesh_angle_tol
     from gen.validate.ring_checks import toothed_hole
 
     beta_signed = math.copysign(sizes.beta, twist)
+    tol = mesh_angle_tol(chord, sizes.rp)
 
     def check(polys_at):
         span = (face - groove) / 2.0 if chevron else face
         z_a, z_b = 0.1 * span, 0.9 * span
         pa, pb = toothed_hole(polys_at(z_a)), toothed_hole(polys_at(z_b))
         out = [Finding(f.severity, f.code, f.message, name, f.source)
-               for f in check_gear_helix(pa, pb, z_b - z_a, beta_signed, sizes.rp, subject=name)]
+               for f in check_gear_helix(pa, pb, z_b - z_a, beta_signed, sizes.rp, subject=name,
+                                         tol=tol)]
         if chevron:
             zm = face / 2.0
             pairs = [(toothed_hole(polys_at(zm - t)), toothed_hole(polys_at(zm + t)))
                      for t in (groove / 2.0 + 0.2 * span, groove / 2.0 + 0.8 * span)]
             out += [Finding(f.severity, f.code, f.message, name, f.source)
-                    for f in check_herringbone_mirror(pairs, sizes.rp, subject=name)]
+                    for f in check_herringbone_mirror(pairs, sizes.rp, subject=name, tol=tol)]
         return out
 
     return check

@@ -14,7 +14,10 @@ error is the polygon's alone (``PROFILE_SHARE`` of the tolerance, the rest unuse
 prism spends ``TWISTED_PROFILE_SHARE`` on the polygon and the rest on the twist: the number
 of steps of each column comes from the error bound derived in
 :mod:`gen.triangles.twist_walls` (helix sagitta along the chord's normal, mixed term of the
-profile chord and the turn, third-order and slide terms), strip by strip.
+profile chord and the turn, third-order and slide terms), strip by strip. Involute flanks
+(about the axis, turned without shear) have no columns inside: their surface is ruled by
+straight lines, along which :mod:`gen.triangles.ruled_flanks` meshes them, with its own
+bound; the fillet and tip columns at their ends take steps no longer than that allows.
 
 Measured (2 cores; herringbone m_n 2, z 40, 2 × 10 mm, β 30°, 8 mm bore, tol 0.01 mm):
 uniform layers (one global radius and chord for every column: 9 layers per half) gave 52,554
@@ -35,6 +38,7 @@ from gen.errors import GeometryError
 from gen.geometry.body import Body, Prism, plan_cuts
 from gen.geometry.section import Arc, Line, Loop, Spline, signed_area
 from gen.geometry.stack import fixed_loop
+from gen.triangles.ruled_flanks import flank_runs, ruled_walls, side_steps
 from gen.triangles.twist_walls import chord_terms, column_counts, stage_walls, strip_steps
 
 #: share of the chordal tolerance spent on the section polygon of a straight or sheared prism
@@ -110,7 +114,13 @@ def _max_chord_error(p: np.ndarray, idx: np.ndarray) -> float:
 
 def loop_polygon(loop: Loop, tol: float, ccw: bool = True) -> np.ndarray:
     """Closed polygon (last vertex not repeated) of ``loop`` within ``tol`` mm, in the given sense."""
-    parts = []
+    return tagged_polygon(loop, tol, ccw)[0]
+
+
+def tagged_polygon(loop: Loop, tol: float, ccw: bool = True):
+    """(polygon as :func:`loop_polygon`, the index in ``loop.curves`` of the curve each vertex
+    starts or lies on, True when the polygon runs against the curves)."""
+    parts, tags = [], []
     for c in loop.curves:
         if isinstance(c, Spline):
             parts.append(_spline_polyline(c.points, tol)[:-1])
@@ -118,22 +128,29 @@ def loop_polygon(loop: Loop, tol: float, ccw: bool = True) -> np.ndarray:
             parts.append(c.polyline(tol)[:-1])
         else:
             raise GeometryError(f"unknown section curve {type(c).__name__}")
+        tags.append(np.full(len(parts[-1]), len(tags)))
     poly = np.concatenate(parts, axis=0)
+    tag = np.concatenate(tags)
     # vertices closer than this are one: curve junctions fitted apart by round-off would
     # otherwise give sliver facets that a re-read of the written STL counts as degenerate
     # (1/100 of the chord tolerance, at most 0.1 µm: no measurable change of the outline)
     merge = min(1e-4, 0.01 * tol)
     keep = np.hypot(*(poly - np.roll(poly, 1, axis=0)).T) > merge
-    poly = poly[keep]
-    if (signed_area(poly) > 0) != ccw:
-        poly = poly[::-1]
-    return poly
+    poly, tag = poly[keep], tag[keep]
+    flip = (signed_area(poly) > 0) != ccw
+    if flip:
+        poly, tag = poly[::-1], tag[::-1]
+    return poly, tag, flip
 
 
 # --------------------------------------------------------------------------- assembly
-def _loop_walls(prism: Prism, poly: np.ndarray, moving: bool, tol_t: float, base: int):
-    """(vertices (n, 3), wall triangles, bottom indices, top indices) of one loop: a column of
-    vertices per polygon vertex, with its own steps per stage (:mod:`twist_walls`)."""
+def _loop_walls(prism: Prism, poly: np.ndarray, moving: bool, tol_t: float, base: int,
+                tol: float = 0.0, runs=()):
+    """(vertices (n, 3), wall triangles, bottom ring, top ring) of one loop: a column of
+    vertices per polygon vertex, with its own steps per stage (:mod:`twist_walls`), except
+    inside the involute flanks ``runs`` (:func:`gen.triangles.ruled_flanks.flank_runs`),
+    meshed along their lines. The rings are the global indices of the cap loops in polygon
+    order. None when a flank's lines would not keep ``tol``."""
     n = len(poly)
     stages = prism.stages() if moving else ((prism.z0, prism.z1, 1.0),)
     counts, leads, known = [], [], {}
@@ -142,20 +159,34 @@ def _loop_walls(prism: Prism, poly: np.ndarray, moving: bool, tol_t: float, base
         theta = abs(prism.twist) * (zb - za) if moving else 0.0
         if theta > 0.0:
             if theta not in known:   # the two halves of a chevron turn alike
-                known[theta] = column_counts(*strip_steps(poly, theta, tol_t), theta)
+                least = side_steps(poly, runs, theta, tol) if runs else None
+                known[theta] = column_counts(*strip_steps(poly, theta, tol_t), theta, least)
             counts.append(known[theta])
             leads.append(c_k * sign > 0.0)
         else:
             counts.append(np.ones(n, dtype=np.int64))
             leads.append(np.zeros(n, dtype=bool))
+    inner = np.zeros(n, dtype=bool)
+    for _, ins, _, _ in runs:
+        inner[ins] = True
+    at_col = np.flatnonzero(~inner)                       # polygon index of each column
+    pos = np.full(n, -1)
+    pos[at_col] = np.arange(len(at_col))
+    keep = np.ones(len(at_col), dtype=bool)               # strips meshed as columns
+    for i0, _, _, _ in runs:
+        keep[pos[i0]] = False
+    counts = [c[at_col] for c in counts]
+    leads = [ld[at_col] for ld in leads]
+    pc, nc = poly[at_col], len(at_col)
     levels = 1 + np.sum(counts, axis=0)                   # vertices per column
     offset = base + np.concatenate([[0], np.cumsum(levels)[:-1]])
-    cols, zs, lvls = [np.arange(n)], [np.full(n, float(prism.z0))], [np.zeros(n, np.int64)]
-    start = np.ones(n, dtype=np.int64)                    # level of each stage's first step
-    tris = []
+    cols, zs, lvls = [np.arange(nc)], [np.full(nc, float(prism.z0))], [np.zeros(nc, np.int64)]
+    start = np.ones(nc, dtype=np.int64)                   # level of each stage's first step
+    tris, firsts = [], []
     for (za, zb, _), cnt, lead in zip(stages, counts, leads):
-        tris.append(stage_walls(offset + start - 1, cnt, lead))
-        col = np.repeat(np.arange(n), cnt)
+        firsts.append(start - 1)
+        tris.append(stage_walls(offset + start - 1, cnt, lead, keep))
+        col = np.repeat(np.arange(nc), cnt)
         m = np.arange(len(col)) - np.repeat(np.cumsum(cnt) - cnt, cnt) + 1
         zs.append(np.where(m == cnt[col], zb, za + (zb - za) * m / cnt[col]))
         cols.append(col)
@@ -168,42 +199,67 @@ def _loop_walls(prism: Prism, poly: np.ndarray, moving: bool, tol_t: float, base
     if moving:
         th, s = prism.motion(z)
         c, sn = np.cos(th), np.sin(th)
-        p = poly[col]
+        p = pc[col]
         xy = np.column_stack([c * p[:, 0] - sn * p[:, 1] + s, sn * p[:, 0] + c * p[:, 1]])
     else:
-        xy = poly[col]
+        xy = pc[col]
     verts = np.column_stack([xy, z])
-    return verts, np.concatenate(tris), offset, offset + levels - 1
+    bottom, top = offset, offset + levels - 1
+    if not runs:
+        return verts, np.concatenate(tris), bottom, top
+    got = ruled_walls(prism, poly, runs, counts, pos, offset, firsts, base + len(verts), tol)
+    if got is None:
+        return None
+    more, flank_tris, inserts = got
+    after = {i0: ins for (i0, _, _, _), ins in zip(runs, inserts)}
+    rings = []
+    for ring, level in ((bottom, 0), (top, -1)):
+        out = []
+        for k, i in enumerate(at_col):
+            out.append(ring[k:k + 1])
+            if i in after:
+                out.append(after[i][level])
+        rings.append(np.concatenate(out))
+    return (np.vstack([verts, more]), np.concatenate(tris + [flank_tris]), rings[0], rings[1])
 
 
 def _prism_arrays(prism: Prism, tol: float, extra_holes=()):
     """(vertices (n, 3), triangles (m, 3)) of one prism with optional straight holes."""
     tol_p = (PROFILE_SHARE if prism.twist == 0.0 else TWISTED_PROFILE_SHARE) * tol
-    loops = [(loop_polygon(prism.section.outer, tol_p, True), True)]
+    loops = [(prism.section.outer, True, True)]
     # a round hole on the axis is its own image under any turn: its wall stays straight
     # (exact along z, one step) and needs no twist share; shear moves it like the rest
-    loops += [(loop_polygon(h, tol_p, False), not (fixed_loop(h) and prism.shear == 0.0))
+    loops += [(h, False, not (fixed_loop(h) and prism.shear == 0.0))
               for h in prism.section.holes]
-    loops += [(loop_polygon(h, tol_p, False), False) for h in extra_holes]
+    loops += [(h, False, False) for h in extra_holes]
+    ruled = prism.twist != 0.0 and prism.shear == 0.0
     verts, tris, base = [], [], 0
-    bottom, top = [], []  # global indices of each loop's first / last layer
-    for poly, mv in loops:
-        v, t, b, e = _loop_walls(prism, poly, mv, tol - tol_p, base)
+    bottom, top = [], []  # global indices of each loop's cap ring
+    any_runs = False
+    for loop, ccw, mv in loops:
+        poly, tags, flip = tagged_polygon(loop, tol_p, ccw)
+        runs = flank_runs(tags, loop.curves, flip) if (ruled and mv) else []
+        got = _loop_walls(prism, poly, mv, tol - tol_p, base, tol, runs) if runs else None
+        if got is None:
+            got = _loop_walls(prism, poly, mv, tol - tol_p, base)
+        else:
+            any_runs = True
+        v, t, b, e = got
         verts.append(v)
         tris.append(t)
         bottom.append(b)
         top.append(e)
         base += len(v)
-    polys = [p for p, _ in loops]
-    cap = _triangulate(polys)
+    allv = np.concatenate(verts)
     first = np.concatenate(bottom)
     last = np.concatenate(top)
+    cap = _triangulate([allv[b][:, :2] for b in bottom])
     tris.append(first[cap][:, ::-1])  # bottom faces down
-    rigid = all(mv for _, mv in loops) or prism.straight
-    top_cap = cap if rigid or prism.chevron else _triangulate(
-        [prism.place(p, prism.z1) if mv else p for p, mv in loops])
+    rigid = all(mv for _, _, mv in loops) or prism.straight
+    top_cap = cap if (rigid or prism.chevron) and not any_runs else _triangulate(
+        [allv[e][:, :2] for e in top])
     tris.append(last[top_cap])
-    return np.concatenate(verts), np.concatenate(tris)
+    return allv, np.concatenate(tris)
 
 
 def _triangulate(polys) -> np.ndarray:

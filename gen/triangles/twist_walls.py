@@ -140,13 +140,17 @@ def strip_steps(poly: np.ndarray, theta: float, tol: float):
     return out[0], out[1]
 
 
-def column_counts(d_eq: np.ndarray, d_zip: np.ndarray, theta: float) -> np.ndarray:
-    """Steps per column (column i borders strips i − 1 and i) for a stage turning ``theta``."""
+def column_counts(d_eq: np.ndarray, d_zip: np.ndarray, theta: float,
+                  least: np.ndarray | None = None) -> np.ndarray:
+    """Steps per column (column i borders strips i − 1 and i) for a stage turning ``theta``;
+    ``least``: steps a column must have at least."""
     def steps(d):
         return np.maximum(1, np.ceil(theta / np.maximum(d, 1e-300) - 1e-9)).astype(np.int64)
 
     n_eq, n_zip = steps(d_eq), steps(d_zip)
     cols = np.maximum(n_eq, np.roll(n_eq, 1))
+    if least is not None:
+        cols = np.maximum(cols, least)
     while True:
         a, b = cols, np.roll(cols, -1)               # strip i: columns i and i + 1
         short = (a != b) & (np.minimum(a, b) < n_zip)
@@ -185,16 +189,21 @@ def strip_pattern(na: int, nb: int, a_leads: bool) -> np.ndarray:
     return np.array(tris, dtype=np.int64)   # (m, 3, 2)
 
 
-def stage_walls(first: np.ndarray, counts: np.ndarray, a_leads: np.ndarray) -> np.ndarray:
+def stage_walls(first: np.ndarray, counts: np.ndarray, a_leads: np.ndarray,
+                keep: np.ndarray | None = None) -> np.ndarray:
     """Wall triangles of one stage of one loop.
 
     ``first[i]`` is the global index of column i's vertex at the stage's bottom, its levels
-    following consecutively (``counts[i]`` steps); ``a_leads[i]`` picks strip i's diagonal."""
+    following consecutively (``counts[i]`` steps); ``a_leads[i]`` picks strip i's diagonal;
+    ``keep[i]`` False leaves strip i (from column i to the next) to another mesher."""
     n = len(counts)
     nxt = (np.arange(n) + 1) % n
     top = int(counts.max()) + 1
     keys = (counts * top + counts[nxt]) * 2 + a_leads.astype(np.int64)
-    order = np.argsort(keys, kind="stable")
+    idx = np.arange(n) if keep is None else np.flatnonzero(keep)
+    order = idx[np.argsort(keys[idx], kind="stable")]
+    if not len(order):
+        return np.zeros((0, 3), dtype=np.int64)
     cut = np.flatnonzero(np.diff(keys[order])) + 1
     out = []
     for strips in np.split(order, cut):

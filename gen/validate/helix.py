@@ -27,6 +27,15 @@ from gen.validate.measure import material_arcs, rack_teeth_on_line
 HELIX_ANGLE_TOL = math.radians(0.05)
 
 
+def mesh_angle_tol(chord: float, r: float) -> float:
+    """Allowed turn difference (rad) between two slices of a mesh within ``chord`` mm of the
+    exact surface, measured on the circle r: HELIX_ANGLE_TOL plus the mesh's own share. A
+    flank crossing of the circle moves along it by at most chord / cos α (α ≤ 35° there, so
+    1.25 chord), a tooth centre (the mean of two crossings) as much, and the turn compares two
+    slices: 2.5 chord / r (computed)."""
+    return HELIX_ANGLE_TOL + 2.5 * chord / r
+
+
 def tooth_centres(poly: np.ndarray, r: float) -> np.ndarray:
     """Angles (rad, in [0, 2π)) of the tooth centres where the outline crosses the circle r."""
     arcs = material_arcs(np.asarray(poly, dtype=float), r)
