@@ -102,3 +102,27 @@ def test_zipped_patch_covers_the_parallelogram_once():
     edges = np.sort(np.concatenate([tris[:, [0, 1]], tris[:, [1, 2]], tris[:, [2, 0]]]), axis=1)
     _, count = np.unique(edges, axis=0, return_counts=True)
     assert count.max() == 2                         # no edge used by three triangles
+
+
+def test_helical_ring_flanks_found_on_samples_and_walls_keep_tol():
+    # a ring gear's generated flanks carry samples only: the involute is found on them
+    # (r_b = r_p cos α_t, ISO 21771, computed), and the ruled walls keep the tolerance
+    from test_prism_mesh import wall_deviation
+
+    from gen.api import make
+    from gen.triangles.prism import prism_triangles
+
+    part = make("ring_gear", module=1.5, teeth=48, face_width=12, helix_angle=20,
+                rim_thickness=6)
+    pr = part.shape.solids[0]
+    hole = pr.section.holes[0]
+    found = [involute_params(c) for c in hole.curves if isinstance(c, Spline)]
+    found = [p for p in found if p is not None]
+    rp = 1.5 * 48 / math.cos(math.radians(20)) / 2.0
+    rb = rp * math.cos(math.atan(math.tan(math.radians(20)) / math.cos(math.radians(20))))
+    assert len(found) == 2 * 48
+    assert all(p[0] == pytest.approx(rb, rel=1e-7) for p in found)
+    m = prism_triangles(pr, tol=0.01)
+    assert m.is_watertight and m.is_winding_consistent
+    d = wall_deviation(m, pr, [pr.section.outer, hole], k=4)
+    assert d.max() + 1e-4 <= 0.01

@@ -48,10 +48,20 @@ def _inv(r: np.ndarray, rb: float) -> np.ndarray:
 def involute_params(spline) -> tuple | None:
     """(r_b, ε, α₀) when ``spline``'s exact curve is an involute of a circle about the origin
     (checked on 41 points within :data:`INVOLUTE_FIT`), else None. Curves that are one shape
-    turned about the origin (a gear's teeth) are fitted once."""
+    turned about the origin (a gear's teeth) are fitted once; a spline without its exact
+    curve is checked on its own samples."""
     e = getattr(spline, "exact", None)
-    if e is None:
-        return None
+    if e is None:   # the samples alone (a ring gear's generated flank): they must fit too
+        pts = np.asarray(getattr(spline, "points", ()), dtype=float)
+        if len(pts) < 8:
+            return None
+        # every tooth's flank is one shape turned: fitted once, turned to its first sample
+        a = float(np.arctan2(pts[0, 1], pts[0, 0]))
+        c, s = np.cos(-a), np.sin(-a)
+        key = np.round(np.column_stack([c * pts[:, 0] - s * pts[:, 1],
+                                        s * pts[:, 0] + c * pts[:, 1]]), 9)
+        got = _samples_params(key.tobytes(), len(key))
+        return None if got is None else (got[0], got[1], got[2] + a)
     if tuple(e.shift) == (0.0, 0.0):
         try:
             got = _source_params(e.source, e.flip)
@@ -61,13 +71,23 @@ def involute_params(spline) -> tuple | None:
     return _params(e)
 
 
+@lru_cache(maxsize=256)
+def _samples_params(raw: bytes, n: int):
+    return _fit(np.frombuffer(raw, dtype=float).reshape(n, 2))
+
+
 @lru_cache(maxsize=64)
 def _source_params(source, flip: bool):
     return _params(Exact(source, 0.0, (0.0, 0.0), flip))
 
 
 def _params(e) -> tuple | None:
-    p = e.at(np.linspace(0.0, 1.0, 41))
+    return _fit(e.at(np.linspace(0.0, 1.0, 41)))
+
+
+def _fit(p: np.ndarray) -> tuple | None:
+    """(r_b, ε, α₀) of the involute through the points ``p`` (ordered along the curve), when
+    every one lies within :data:`INVOLUTE_FIT` of it."""
     r = np.hypot(p[:, 0], p[:, 1])
     phi = np.unwrap(np.arctan2(p[:, 1], p[:, 0]))
     i, j = int(np.argmin(r)), int(np.argmax(r))
