@@ -126,3 +126,17 @@ def test_helical_ring_flanks_found_on_samples_and_walls_keep_tol():
     assert m.is_watertight and m.is_winding_consistent
     d = wall_deviation(m, pr, [pr.section.outer, hole], k=4)
     assert d.max() + 1e-4 <= 0.01
+
+
+@pytest.mark.parametrize("flip", [False, True])
+def test_zipped_patch_when_least_and_most_s_are_neighbours(flip):
+    # a quadrilateral whose least-s and most-s vertices share an edge: one chain is that edge
+    s = np.array([0.0, 1.0, 0.7, 0.3])
+    z = np.array([0.0, 0.0, 1.0, 1.0])
+    if flip:
+        s, z = s[::-1].copy(), z[::-1].copy()
+    tris = zip_patch(s, z, 1.0)
+    a = ((s[tris[:, 1]] - s[tris[:, 0]]) * (z[tris[:, 2]] - z[tris[:, 0]])
+         - (s[tris[:, 2]] - s[tris[:, 0]]) * (z[tris[:, 1]] - z[tris[:, 0]])) / 2.0
+    assert len(tris) == 2 and np.all(a > 0)
+    assert a.sum() == pytest.approx(0.7)             # trapezoid: (1 + 0.4) / 2 × 1

@@ -183,7 +183,7 @@ def zip_patch(cycle_s: np.ndarray, cycle_z: np.ndarray, sense: float) -> np.ndar
         else:
             tris.append((fwd[i], bwd[j], bwd[j + 1]))
             j += 1
-    if fwd[i] != bwd[j]:
+    if i < last_f and j < last_b:       # both chains one short of the end vertex
         tris.append((fwd[i], bwd[j], fwd[last_f]))
     t = np.array(tris, dtype=np.int64)
     u, z = sense * cycle_s, cycle_z
