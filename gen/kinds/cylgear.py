@@ -21,7 +21,7 @@ from gen.geometry.section import Section, circle
 from gen.geometry.stack import fixed_loop
 from gen.kinds.base import Formula, GearMate, Part, Role
 from gen.kinds import common_keys as K
-from gen.findings import ERROR, WARNING, Finding
+from gen.findings import ERROR, Finding
 from gen.tolerances import TOL
 from gen.validate.gear_checks import (compare_sizes, gear_findings, measured_sizes,
                                       thickness_circle)

@@ -28,7 +28,7 @@ import functools
 import math
 
 from gen.errors import GeometryError
-from gen.findings import ERROR, INFO, WARNING, Finding
+from gen.findings import INFO, WARNING, Finding
 from gen.geometry.basic_rack import basic_rack
 from gen.geometry.body import Body, Prism, gear_twist
 from gen.geometry.internal import ring_base_tip_limit
