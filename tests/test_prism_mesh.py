@@ -313,6 +313,13 @@ def test_measured_helix_on_helical_gear_slices(gear20, hand):
     assert f[0].severity == "info"
     f = helix.check_gear_helix(a, b, zb - za, math.radians(25), sz.rp)
     assert f[0].severity == "error"
+    # with the allowance of a 0.01 mm mesh (gen.validate.helix.mesh_angle_tol, what the
+    # parts' slice checks use) a 1° error of β and the wrong hand are still refused
+    tol = helix.mesh_angle_tol(0.01, sz.rp)
+    sign = 1 if hand == "right" else -1
+    assert helix.check_gear_helix(a, b, zb - za, sign * BETA, sz.rp, tol=tol)[0].severity == "info"
+    for beta in (sign * math.radians(29), sign * math.radians(31), -sign * BETA):
+        assert helix.check_gear_helix(a, b, zb - za, beta, sz.rp, tol=tol)[0].severity == "error"
 
 
 def test_herringbone_halves_are_mirror_images(gear20):
