@@ -185,6 +185,17 @@ def circle_arc(tr: Track, nb: Nurbs, levels):
     centre at the origin without shear), else None. A face that would wrap more than half a
     turn of its cylinder (a long helical groove) stays a B-spline: the kernel's booleans lose
     faces whose parameter range exceeds the cylinder's period (measured: an empty cut)."""
+    return _circle_arc(tr, nb, _stage_turn(tr, levels))
+
+
+def _stage_turn(tr: Track, levels) -> float:
+    """The largest turn (rad) of ``tr`` between consecutive levels (0 when straight)."""
+    if tr.prism is None:
+        return 0.0
+    return max(abs(tr.theta(b) - tr.theta(a)) for a, b in zip(levels[:-1], levels[1:]))
+
+
+def _circle_arc(tr: Track, nb: Nurbs, turn: float):
     if nb.arc is None:
         return None
     cx, cy, _, a0, a1 = nb.arc
@@ -192,7 +203,6 @@ def circle_arc(tr: Track, nb: Nurbs, levels):
         return nb.arc
     if tr.prism.shear != 0.0 or math.hypot(cx, cy) > 1e-12:
         return None
-    turn = max(abs(tr.theta(b) - tr.theta(a)) for a, b in zip(levels[:-1], levels[1:]))
     return nb.arc if turn + abs(a1 - a0) <= math.pi else None
 
 
@@ -202,7 +212,8 @@ def level_rows(bld: Builder, tr: Track, levels) -> dict:
     arc carried as a circle (:func:`circle_arc`), (cx, cy, R, sense, p0, p1) with the edge's
     parameter range p0…p1 (angle, ``sense`` −1: measured clockwise), else None."""
     per = {}
-    arcs = [circle_arc(tr, nb, levels) for nb in tr.curves]
+    turn = _stage_turn(tr, levels)
+    arcs = [_circle_arc(tr, nb, turn) for nb in tr.curves]
     for k, z in enumerate(levels):
         c, s, t = tr.at(z)
         th = tr.theta(z)

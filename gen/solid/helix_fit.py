@@ -15,27 +15,9 @@ from functools import lru_cache
 import numpy as np
 
 from gen.errors import GeometryError
+from gen.geometry.bspline_fit import basis
 
 from gen.solid.kernel import HELIX_FIT
-
-def _basis(full: np.ndarray, deg: int, t: np.ndarray) -> np.ndarray:
-    """B-spline basis functions N_j,deg(t) on the full knot vector (Cox–de Boor), (len t, n)."""
-    t = np.asarray(t, dtype=float)
-    m = len(full) - 1
-    B = ((full[:-1] <= t[:, None]) & (t[:, None] < full[1:])).astype(float)
-    last = int(np.nonzero(full[:-1] < full[1:])[0][-1])
-    B[t >= full[-1], :] = 0.0
-    B[t >= full[-1], last] = 1.0
-    for p in range(1, deg + 1):
-        Bn = np.zeros((len(t), m - p))
-        for j in range(m - p):
-            d1, d2 = full[j + p] - full[j], full[j + p + 1] - full[j + 1]
-            if d1 > 0:
-                Bn[:, j] += (t - full[j]) / d1 * B[:, j]
-            if d2 > 0:
-                Bn[:, j] += (full[j + p + 1] - t) / d2 * B[:, j + 1]
-        B = Bn
-    return B
 
 
 @dataclass(eq=False)
@@ -77,11 +59,11 @@ def _vfit_spans(za: float, zb: float, turn: float, spans: int) -> _VFit:
     full = np.concatenate([[za] * 3, knots, [zb] * 3])
     n = spans + 3
     zs = np.array([full[j + 1:j + 4].mean() for j in range(n)])
-    A = np.linalg.inv(_basis(full, 3, zs))
+    A = np.linalg.inv(basis(full, 3, zs))
     th = (zs - za) / (zb - za) * turn
     P = A @ np.column_stack([np.cos(th), np.sin(th)])
     ts = np.linspace(za, zb, 24 * spans + 1)
-    E = _basis(full, 3, ts) @ P
+    E = basis(full, 3, ts) @ P
     the = (ts - za) / (zb - za) * turn
     err = float(np.max(np.hypot(E[:, 0] - np.cos(the), E[:, 1] - np.sin(the))))
     return _VFit(3, [float(k) for k in knots], [4] + [1] * (spans - 1) + [4], zs, A, err)

@@ -33,16 +33,17 @@ from functools import lru_cache
 
 import numpy as np
 
+from gen.geometry.involute import inv, pressure_angle_at
 from gen.geometry.section import Exact
+from gen.triangles.twist_walls import largest_within
 
 #: positions of a flank's samples must follow the involute formula within this (mm)
 INVOLUTE_FIT = 1e-7
 
 
 def _inv(r: np.ndarray, rb: float) -> np.ndarray:
-    """Involute function of the pressure angle at radius r: tan α − α, cos α = r_b / r."""
-    a = np.arccos(np.clip(rb / r, -1.0, 1.0))
-    return np.tan(a) - a
+    """inv α_r of the involute of base radius r_b at radius r (ISO 21771)."""
+    return inv(pressure_angle_at(rb, r))
 
 
 def involute_params(spline) -> tuple | None:
@@ -125,10 +126,11 @@ def roll(points: np.ndarray, rb: float) -> np.ndarray:
 
 
 def involute_points(t: np.ndarray, rb: float, eps: float, alpha0: float) -> np.ndarray:
-    """Section points (n, 2) of roll angles ``t`` on the involute (r_b, ε, α₀)."""
+    """Section points (n, 2) of roll angles ``t`` on the involute (r_b, ε, α₀): radius
+    r_b √(1 + t²), polar angle α₀ + ε inv α (t = tan α)."""
     t = np.asarray(t, dtype=float)
     r = rb * np.sqrt(1.0 + t * t)
-    a = alpha0 + eps * (t - np.arctan(t))
+    a = alpha0 + eps * inv(np.arctan(t))
     return np.column_stack([r * np.cos(a), r * np.sin(a)])
 
 
@@ -208,16 +210,9 @@ def _widest(rb, turn, t_hi, t_lo, tol):
 
 
 def widest_gap(rb: float, delta: float, t_hi: float, t_lo: float, tol: float) -> float:
-    """The largest s-spread whose bound stays within ``tol`` for triangles turning up to
-    ``delta`` between rolls t_lo … t_hi (bisection: the bound grows with the spread)."""
-    lo, hi = 0.0, 1.0
-    for _ in range(50):
-        mid = 0.5 * (lo + hi)
-        if _bound(mid, delta, t_hi, t_lo, rb) <= tol:
-            lo = mid
-        else:
-            hi = mid
-    return lo
+    """The largest s-spread (≤ 1 rad) whose bound stays within ``tol`` for triangles turning
+    up to ``delta`` between rolls t_lo … t_hi (the bound grows with the spread)."""
+    return float(largest_within(lambda d: _bound(d, delta, t_hi, t_lo, rb), np.ones(1), tol)[0])
 
 
 def run_widest(poly: np.ndarray, run, turn: float, tol: float) -> float:

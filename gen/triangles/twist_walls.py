@@ -102,7 +102,7 @@ def turning_within(poly: np.ndarray, reach: np.ndarray) -> np.ndarray:
     return np.maximum(fwd, bwd)
 
 
-def _bisect(f, hi: np.ndarray, tol: float) -> np.ndarray:
+def largest_within(f, hi: np.ndarray, tol: float) -> np.ndarray:
     """Largest δ in [0, hi] with f(δ) ≤ tol, f increasing (rounded down, within 2⁻²⁴ of hi:
     a step count ⌈Θ/δ⌉ can only come out higher than exact, never lower)."""
     lo = np.zeros_like(hi)
@@ -134,9 +134,9 @@ def strip_steps(poly: np.ndarray, theta: float, tol: float):
     # spill bounds the final one from above, so its τ is a safe reach
     out = []
     for eq in (True, False):
-        d0 = _bisect(lambda d: normal(d, eq), hi, tol)
+        d0 = largest_within(lambda d: normal(d, eq), hi, tol)
         g = 2.0 * np.sin(np.minimum(turning_within(poly, tau(d0)), math.pi) / 2.0)
-        out.append(_bisect(lambda d: normal(d, eq) + g * tau(d), d0, tol))
+        out.append(largest_within(lambda d: normal(d, eq) + g * tau(d), d0, tol))
     return out[0], out[1]
 
 
