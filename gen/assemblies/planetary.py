@@ -309,7 +309,6 @@ def _members(name, v, fit, where) -> dict:
     }
     out = {}
     for member, values in raw.items():
-        mod = ring_gear if member == "ring" else cylgear
         keys = ring_gear.KEYS if member == "ring" else cylgear.GEAR_KEYS
         try:
             checked = check_mapping(values, keys, where)
