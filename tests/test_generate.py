@@ -102,3 +102,25 @@ def test_root_meets_root_circle_and_thinning_thins():
     s2, _, f2 = spur_flank(30, m=2.0, x=0.2, thinning=0.2)
     r = sizes.rp
     assert 2 * r * (flank.psi_at(r) - f2.psi_at(r)) == pytest.approx(0.2, abs=2e-4)
+
+
+@pytest.mark.parametrize("z,x,alpha,profile", [
+    (133, 0.7, 25, "B"), (133, 0.71, 25, "B"), (20, 0.0, 20, "A"), (57, -0.3, 20, "C"),
+])
+def test_envelope_is_exact_right_at_the_pitch_circle(z, x, alpha, profile):
+    # Just above r_p the rack point that generates the flank lies within ~1e-11 mm of where
+    # it stops reaching the radius (the rolling formula has a square root there), which once
+    # left one flank sample 0.5 µm thick (m 0.3, z 133, x 0.7: a sample 6.5 nm above r_p,
+    # found by the random-parameter test). The envelope evaluated afresh at radii from 1e-9
+    # to 1e-4 mm above and below r_p must be the ISO 21771 involute (tooth thickness
+    # s = m(π/2 + 2x tan α) on the reference circle) within 1 nm.
+    from gen.geometry.generate import psi_exact
+
+    m = 0.3
+    sizes, cutter, flank = spur_flank(z, m=m, x=x, alpha_deg=alpha, profile=profile)
+    dr = np.array([1e-9, 3e-9, 1e-8, 6.5e-8, 1e-7, 1e-6, 6.47e-6, 1e-5, 1e-4])
+    r = np.concatenate([sizes.rp - dr, [sizes.rp], sizes.rp + dr])
+    r = r[r >= flank.r_junction]
+    psi_inv = half_thickness_angle(r, rp=sizes.rp, rb=sizes.rb, s=sizes.s)
+    dev = np.abs(psi_exact(cutter, sizes.rp, z, r) - psi_inv) * r
+    assert len(r) >= 10 and dev.max() < 1e-9

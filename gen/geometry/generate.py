@@ -21,6 +21,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from gen.errors import GeometryError
+from gen.geometry.golden import golden_min
 from gen.tolerances import TOL
 
 TIP, FILLET, FLANK = 0, 1, 2  # cutter outline pieces; parameter s in [0,1), [1,2), [2,3]
@@ -114,26 +115,13 @@ def _envelope(cutter: Cutter, rp: float, r, s_lo: float, s_hi: float, n: int = 2
     i = np.argmin(th, axis=1)
     a = s[np.clip(i - 1, 0, n - 1)]
     b = s[np.clip(i + 1, 0, n - 1)]
-    g = (math.sqrt(5.0) - 1.0) / 2.0
-    c = b - g * (b - a)
-    d = a + g * (b - a)
-    fc = _theta(cutter, rp, c, r)
-    fd = _theta(cutter, rp, d, r)
-    for _ in range(60):
-        left = fc < fd
-        b = np.where(left, d, b)
-        a = np.where(left, a, c)
-        new = np.where(left, b - g * (b - a), a + g * (b - a))
-        fn = _theta(cutter, rp, new, r)
-        d, fd, c, fc = (np.where(left, c, new), np.where(left, fc, fn),
-                        np.where(left, new, d), np.where(left, fn, fd))
-        if np.max(np.abs(b - a)) * (cutter.top + 10.0) < TOL.envelope:
-            break
-    s_best = 0.5 * (a + b)
-    th_best = _theta(cutter, rp, s_best, r)
-    th_grid = th[np.arange(len(r)), i]
-    better = th_grid < th_best
-    return np.where(better, th_grid, th_best), np.where(better, s[i], s_best)
+    # near the pitch circle the contact lies within ~1e-11 mm of where the rack point stops
+    # reaching radius r (θ = inf beyond it): the bracket's middle alone may fall there, and
+    # taking the grid's value instead was 0.5 µm off (m 0.3, z 133, x 0.7)
+    cols = np.arange(len(r))
+    return golden_min(lambda t: _theta(cutter, rp, t, r), a, b,
+                      lambda width: width * (cutter.top + 10.0) < TOL.envelope, 60,
+                      th[cols, i], s[i])
 
 
 @dataclass(frozen=True)

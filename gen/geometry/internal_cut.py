@@ -40,6 +40,7 @@ from gen.errors import GeometryError
 from gen.geometry.basic_rack import BasicRack
 from gen.geometry.cylindrical import GearSizes, cutter_for, gear_sizes
 from gen.geometry.generate import Flank, generate_flank, psi_exact
+from gen.geometry.golden import golden_min
 from gen.geometry.internal import RingSizes
 from gen.geometry.involute import half_thickness_angle, inv, inv_inverse
 from gen.tolerances import TOL
@@ -178,25 +179,11 @@ def _envelope(cut: ShaperCutter, r, n: int = 480):
         raise GeometryError("the shaper cutter never reaches part of the ring's tooth zone")
     a = q[np.clip(i - 1, 0, len(q) - 1)]
     b = q[np.clip(i + 1, 0, len(q) - 1)]
-    g = (math.sqrt(5.0) - 1.0) / 2.0
-    c = b - g * (b - a)
-    d = a + g * (b - a)
-    fc, fd = _theta(cut, c, r), _theta(cut, d, r)
-    for _ in range(80):
-        left = fc > fd
-        b = np.where(left, d, b)
-        a = np.where(left, a, c)
-        new = np.where(left, b - g * (b - a), a + g * (b - a))
-        fn = _theta(cut, new, r)
-        d, fd, c, fc = (np.where(left, c, new), np.where(left, fc, fn),
-                        np.where(left, new, d), np.where(left, fn, fd))
-        if np.max(np.abs(b - a)) * (cut.ra + cut.a0) < TOL.envelope:
-            break
-    q_best = 0.5 * (a + b)
-    th_best = _theta(cut, q_best, r)
-    th_grid = th[np.arange(len(r)), i]
-    better = th_grid > th_best
-    return np.where(better, th_grid, th_best), np.where(better, q[i], q_best)
+    cols = np.arange(len(r))
+    neg, at = golden_min(lambda t: -_theta(cut, t, r), a, b,
+                         lambda width: width * (cut.ra + cut.a0) < TOL.envelope, 80,
+                         -th[cols, i], q[i])
+    return -neg, at
 
 
 def eta_exact(cut: ShaperCutter, r) -> np.ndarray:

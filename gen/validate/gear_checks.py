@@ -64,8 +64,14 @@ def measured_sizes(poly: np.ndarray, sizes: GearSizes, thick_r: float | None = N
     }
 
 
+#: the pitch is measured on r_p only where r_p lies this far (mm) inside the outline's radii:
+#: a tip on the reference circle (x = −1) puts the tip land's vertices within rounding of r_p,
+#: where every tip-land edge would count as a crossing
+PITCH_CIRCLE_MARGIN = 1e-6
+
+
 def _crosses(r: np.ndarray, R: float) -> bool:
-    return bool(r.min() < R < r.max())
+    return bool(r.min() + PITCH_CIRCLE_MARGIN < R < r.max() - PITCH_CIRCLE_MARGIN)
 
 
 def compare_sizes(subject: str, got: dict, sizes: GearSizes, *, size_tol: float,
