@@ -92,6 +92,19 @@ def test_rim_keys_and_refusals():
         ring(cutter_teeth=40)   # the cutter must be smaller than the ring
 
 
+def test_a_cutter_that_cannot_reach_the_spaces_is_refused_by_name():
+    # inv α_w0 = inv α_t + 2 tan α_n (x₂ − x₀)/(z₂ − z₀) (the internal-pair relation, from
+    # memory): m 1.5, z 34, x −0.3, 14.5°, default 17-tooth cutter → 0.00554 − 0.00913 < 0,
+    # no working pressure angle; this was an internal error (a traceback) before
+    with pytest.raises(ParamError, match="cannot cut this ring") as err:
+        ring(module=1.5, teeth=34, profile_shift=-0.3, pressure_angle=14.5, profile="B")
+    assert err.value.key == "cutter_teeth"
+    # the first remedy the message names: x₀ = x₂ gives α_w0 = α_t
+    fixed = ring(module=1.5, teeth=34, profile_shift=-0.3, pressure_angle=14.5, profile="B",
+                 cutter_shift=-0.3)
+    assert fixed.sizes["cutter_shift"] == -0.3
+
+
 def test_mounting_holes_fit_the_rim_or_are_refused():
     r = ring(rim_thickness=8.0, mounting_holes={"count": 6, "diameter": 3.0, "bolt_circle": 93.0})
     # the DXF section: rim circle, toothed hole and six bolt holes

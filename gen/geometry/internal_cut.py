@@ -118,7 +118,15 @@ def shaper_cutter(ring: RingSizes, z0: int, x0: float = 0.0, rounding: float = 0
     z2, mn, mt, an, at = ring.z, ring.mn, ring.mt, ring.alpha_n, ring.alpha_t
     if z0 < 6 or z0 >= z2:
         raise GeometryError(f"shaper cutter needs 6 ≤ z₀ < z₂ (got z₀ {z0}, z₂ {z2})")
-    awt = float(inv_inverse(float(inv(at)) + 2.0 * math.tan(an) * (ring.x_space - x0) / (z2 - z0)))
+    inv_awt = float(inv(at)) + 2.0 * math.tan(an) * (ring.x_space - x0) / (z2 - z0)
+    if inv_awt <= 0.0:
+        # the cutter would have to cut at a working pressure angle ≤ 0: it cannot reach the
+        # ring's tooth spaces at any centre distance (small α with a negative ring shift)
+        raise GeometryError(f"shaper cutter of {z0} teeth (shift {x0:g}) cannot cut this ring: "
+                            f"inv α_w0 = {inv_awt:.5f} ≤ 0; a cutter_shift ≤ {ring.x_space:.3g} "
+                            f"(then α_w0 ≥ α_t), fewer cutter teeth, or a larger profile shift "
+                            f"or pressure angle")
+    awt = float(inv_inverse(inv_awt))
     a0 = (z2 - z0) * mt * math.cos(at) / (2.0 * math.cos(awt))
     ra0 = ring.rf - a0
     rf0 = ring.ra - a0 - ROOT_CLEARANCE * mn
