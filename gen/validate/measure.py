@@ -18,13 +18,15 @@ def circle_crossings(poly: np.ndarray, R: float):
     """Crossings of the closed polygon with the circle of radius R.
 
     Returns (angles, outward) where ``outward`` is True where the outline, walked in its
-    order, passes from inside to outside the circle. Each crossing is solved exactly on its
+    order, passes from inside to outside the circle (a vertex on the circle is outside). Each crossing is solved exactly on its
     straight edge (quadratic in the edge parameter).
     """
     a = poly
     b = np.roll(poly, -1, axis=0)
     ra, rb = radii(a), radii(b)
-    sel = (ra - R) * (rb - R) < 0
+    # half-open sides: a vertex exactly on the circle counts as outside, so that an outline
+    # whose vertices lie on R (a thread's flank ends on d2) is crossed there once, not skipped
+    sel = (ra < R) != (rb < R)
     a, b = a[sel], b[sel]
     d = b - a
     # |a + t d|² = R²
@@ -34,7 +36,11 @@ def circle_crossings(poly: np.ndarray, R: float):
     disc = np.sqrt(np.maximum(B * B - 4 * A * C, 0.0))
     t1 = (-B + disc) / (2 * A)
     t2 = (-B - disc) / (2 * A)
-    t = np.where((t1 >= 0) & (t1 <= 1), t1, t2)
+    # the root on the edge; where the crossing is an end vertex rounding may put it a hair
+    # outside [0, 1], so take the root nearer the edge and clip it
+    off1 = np.maximum(-t1, 0.0) + np.maximum(t1 - 1.0, 0.0)
+    off2 = np.maximum(-t2, 0.0) + np.maximum(t2 - 1.0, 0.0)
+    t = np.clip(np.where(off1 <= off2, t1, t2), 0.0, 1.0)
     p = a + t[:, None] * d
     ang = np.arctan2(p[:, 1], p[:, 0])
     outward = ra[sel] < R
@@ -100,7 +106,7 @@ def line_crossings_x(poly: np.ndarray, y: float) -> np.ndarray:
     """x of the crossings of the polygon with the horizontal line y (sorted)."""
     a = poly
     b = np.roll(poly, -1, axis=0)
-    sel = (a[:, 1] - y) * (b[:, 1] - y) < 0
+    sel = (a[:, 1] < y) != (b[:, 1] < y)     # half-open, as in circle_crossings
     a, b = a[sel], b[sel]
     t = (y - a[:, 1]) / (b[:, 1] - a[:, 1])
     return np.sort(a[:, 0] + t * (b[:, 0] - a[:, 0]))
