@@ -227,6 +227,30 @@ def test_every_demo_stl_passes_admesh_with_nothing_to_fix(demo):
         assert vol == pytest.approx(entry["mass_properties"]["volume_mm3"], rel=1e-4), name
 
 
+def test_every_demo_stl_is_one_manifold_object_for_the_slicer(demo):
+    # a third reader, the one that prints (Debian's PrusaSlicer): every demo STL is one
+    # manifold object of the manifest's volume (float32 vertices: 1e-5 relative)
+    import shutil
+
+    from conftest import slicer_info
+
+    if shutil.which("prusa-slicer") is None:
+        pytest.skip("prusa-slicer is not installed (Debian package prusa-slicer)")
+    doc = json.loads((demo / "manifest.json").read_text())
+    read = 0
+    for name, entry in doc["parts"].items():
+        stl = entry["files"].get("stl")
+        if stl is None:
+            continue
+        objs = slicer_info(demo / stl["path"])
+        assert len(objs) == 1 and objs[0]["manifold"] == "yes", name
+        assert int(objs[0]["number_of_parts"]) == 1, name
+        assert float(objs[0]["volume"]) == pytest.approx(
+            entry["mass_properties"]["volume_mm3"], rel=1e-5), name
+        read += 1
+    assert read >= 20
+
+
 def test_assembly_views_on_the_page_are_drawn_from_the_written_stl_files(demo):
     # the build's workers shade each assembly's placed members right after its STEP; the
     # page must embed exactly the pictures drawn from the STL files in the folder

@@ -15,6 +15,7 @@ import subprocess
 
 import pytest
 
+from conftest import slicer_info
 from gen.cli import main
 
 SLICER = shutil.which("prusa-slicer")
@@ -51,16 +52,6 @@ def built(tmp_path_factory):
     return out
 
 
-def _info(path) -> list[dict]:
-    """PrusaSlicer's ``--info`` of a file: one dict per object it reports."""
-    text = subprocess.run([SLICER, "--info", str(path)], capture_output=True, text=True,
-                          check=True, timeout=120).stdout
-    objects = []
-    for block in re.split(r"^\[[^\]]+\]\s*$", text, flags=re.M)[1:]:
-        objects.append(dict(re.findall(r"^(\w+)\s*=\s*(.+?)\s*$", block, re.M)))
-    return objects
-
-
 def _stl_facets(path) -> int:
     with open(path, "rb") as fh:           # binary STL: 80-byte header, uint32 facet count
         fh.seek(80)
@@ -74,7 +65,7 @@ def test_slicer_reads_every_file_as_one_manifold_object_of_the_manifest_volume(b
         volume = entry["mass_properties"]["volume_mm3"]
         facets = _stl_facets(built / entry["files"]["stl"]["path"])
         for fmt in ("stl", "3mf"):
-            objs = _info(built / entry["files"][fmt]["path"])
+            objs = slicer_info(built / entry["files"][fmt]["path"])
             assert len(objs) == 1, (name, fmt)
             o = objs[0]
             assert o["manifold"] == "yes", (name, fmt)
@@ -88,7 +79,7 @@ def test_slicer_reads_every_file_as_one_manifold_object_of_the_manifest_volume(b
 def test_slicer_reads_the_plate_and_slices_it(built, tmp_path):
     plates = sorted(built.glob("plate_*.3mf"))
     assert len(plates) == 1
-    objs = _info(plates[0])
+    objs = slicer_info(plates[0])
     doc = json.loads((built / "manifest.json").read_text())
     volumes = sorted(e["mass_properties"]["volume_mm3"] for e in doc["parts"].values())
     assert len(objs) == 2 and all(o["manifold"] == "yes" for o in objs)
