@@ -37,7 +37,7 @@ def _numbers_rows(numbers: dict):
 def mesh_item(p, models) -> str:
     """One declared mesh: the pair drawing, the moving mesh, its numbers and findings."""
     from gen.export.report_html import pair_rows
-    from gen.export.report_motion import bevel_scene, internal_scene, pair_scene
+    from gen.export.report_motion import bevel_scene, pair_scene
     from gen.export.report_svg import mesh_svg
 
     name = p["name"]

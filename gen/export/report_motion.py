@@ -202,7 +202,6 @@ def bevel_scene(part1, part2, title: str = ""):
     p2 = virtual_outline(part2.mate.flank, sb.zv, 0.01)
     scene = pair_scene(p1, p2, pr, title=title, names=(part1.name, part2.name))
     # a virtual gear is not closed round its whole circumference: show the mesh side only
-    C = pr.center_distance
     r1, r2 = pr.tip_radii
     w = 0.55 * max(r1, r2)
     scene = MeshScene(**{**scene.__dict__, "window": (r1 - 1.6 * w, r1 + 1.6 * w, -w, w),

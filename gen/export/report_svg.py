@@ -237,7 +237,7 @@ def _tight_marker(panel: _Panel, sweep: SweepResult):
     ly = y + h - 14
     label = f"tightest {gap:.3f} mm at {math.degrees(sweep.angle_at_min):.2f}°"
     return [
-        f'<g class="tightest">',
+        '<g class="tightest">',
         f'<circle cx="{_n(mx)}" cy="{_n(my)}" r="7" fill="none" stroke="{st["tight"]}" stroke-width="1.6"/>',
         f'<line x1="{_n(mx - 11)}" y1="{_n(my)}" x2="{_n(mx + 11)}" y2="{_n(my)}" stroke="{st["tight"]}" stroke-width="0.8"/>',
         f'<line x1="{_n(mx)}" y1="{_n(my - 11)}" x2="{_n(mx)}" y2="{_n(my + 11)}" stroke="{st["tight"]}" stroke-width="0.8"/>',

@@ -87,7 +87,7 @@ def _box(polys, pad):
 def swing_scene(pl: SwingPlacement, pair, title: str = "") -> MeshScene:
     """The moving pair over the whole swing (out and back), overlap measured per frame."""
     e0, e1 = pl.ends
-    (a10, a20), (a11, a21) = pl.angles(e0), pl.angles(e1)
+    (_, a20), (_, a21) = pl.angles(e0), pl.angles(e1)
     C = pl.center_distance
     m1 = Member(pl.names[0], pl.polys[0], (e0, e1), ((0.0, 0.0), (0.0, 0.0)))
     m2 = Member(pl.names[1], pl.polys[1], (a20, a21), ((C, 0.0), (C, 0.0)))

@@ -104,7 +104,7 @@ def train_yaml(solution, *, name: str = "drive", module: float = 1.0,
     lines = [
         f"# {name}: {len(solution.stages)}-stage train, ratio {solution.ratio:.10g} "
         f"for a wanted {solution.target:.10g} (error {solution.error:+.3g}).",
-        f"# Written by `pitchline ratio`; check it with `pitchline check` before printing.",
+        "# Written by `pitchline ratio`; check it with `pitchline check` before printing.",
         "# Parts on one shaft, from the input: "
         + "; ".join(f"shaft {i + 1}: " + " + ".join(s) for i, s in enumerate(shafts)) + ".",
         "# Units: mm and degrees.",

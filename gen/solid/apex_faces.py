@@ -227,7 +227,6 @@ def apex_shell(sizes: BevelSizes, bore_radius: float, flank):
     starts = np.array([c.start for c in curves])
     theta = np.unwrap(np.arctan2(starts[:, 1], starts[:, 0]))
     theta = np.append(theta, theta[0] + 2.0 * math.pi)
-    rho_start = np.hypot(starts[:, 0], starts[:, 1]) / cd
 
     # --- fit the flank curves; one tolerance for every vertex and edge of the shell -------
     fits = {}

@@ -143,8 +143,8 @@ def bevel_size_findings(sizes: BevelSizes, flank: Flank, subject: str, chord: fl
     plan = slice_plan(sizes, flank)
     if plan is None or plan.depth < 2.0 * slice_tol:
         out.append(Finding(ERROR, "tooth-count", "no plane across the axis crosses the teeth "
-                           f"deeply enough to count them on the exported triangles; widen the "
-                           f"face", subject, "plane section of the tooth band", key="face_width"))
+                           "deeply enough to count them on the exported triangles; widen the "
+                           "face", subject, "plane section of the tooth band", key="face_width"))
         return out
     n = measure.tooth_count(plane_section(sizes, flank, plan.z, chord), plan.r_count)
     if n != sizes.z:
