@@ -41,6 +41,20 @@ CASES = {
     "helical x 1.4 k 0.7": ("helical_gear", {"module": 1, "teeth": 17, "face_width": 6,
                                              "profile_shift": 1.4, "tip_shortening": 0.7,
                                              "helix_angle": 20}),
+    # found by perturbing starter files (fifth round of issue 13): a groove wider than half
+    # the face put the size slice (at b/4) inside the groove, and a ring shifted by x = 1 has
+    # its tips outside r_p, where the helix slices found no teeth
+    "herringbone groove 7 of 12": ("herringbone_gear", {"module": 1.5, "teeth": 30,
+                                                        "helix_angle": 20, "face_width": 12,
+                                                        "groove": 7}),
+    "helical ring x 1": ("ring_gear", {"module": 1.5, "teeth": 51, "helix_angle": 1,
+                                       "profile_shift": 1, "tip_shortening": 0.2,
+                                       "face_width": 12, "rim_thickness": 5}),
+    "herringbone ring x 1 groove 7": ("ring_gear", {"module": 1.422, "teeth": 48,
+                                                    "helix_angle": 15, "herringbone": True,
+                                                    "groove": 7, "profile_shift": 1,
+                                                    "tip_shortening": 0.118, "face_width": 12,
+                                                    "rim_thickness": 5}),
 }
 
 

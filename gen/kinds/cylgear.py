@@ -122,8 +122,9 @@ def make_gear(name: str, values: dict, where, *, kind: str, beta: float = 0.0,
     part = _part(name, kind, values, body, sizes, findings, poly, flank, beta, rack,
                  hand=hand, chevron=chevron)
     checks = list(part.slice_checks)
-    if chevron:   # measure inside the lower half, clear of any groove
-        checks = [size_slice_check(name, sizes, flank, values["chord_tolerance"], b / 4.0)]
+    if chevron:   # measure in the middle of the lower toothed half, clear of any groove
+        checks = [size_slice_check(name, sizes, flank, values["chord_tolerance"],
+                                   0.25 * (b - groove))]
     if beta:
         from gen.kinds.helical import helix_slice_check
 
