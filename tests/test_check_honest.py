@@ -50,6 +50,13 @@ CASES = {
     "helical ring x 1": ("ring_gear", {"module": 1.5, "teeth": 51, "helix_angle": 1,
                                        "profile_shift": 1, "tip_shortening": 0.2,
                                        "face_width": 12, "rim_thickness": 5}),
+    # a rack shorter than two pitches: its helix is measured on the flanks it has
+    "helical rack 8 mm": ("helical_rack", {"module": 2, "helix_angle": 25, "face_width": 10,
+                                           "length": 8, "height": 6}),
+    # a tooth cut 0.36 mm short by a rack end counted as whole in one slice
+    "herringbone rack m 2.522 ends as given": ("herringbone_rack", {
+        "module": 2.522, "helix_angle": 25, "face_width": 12, "length": 121, "height": 9,
+        "ends": "as_given", "hand": "left"}),
     "herringbone ring x 1 groove 7": ("ring_gear", {"module": 1.422, "teeth": 48,
                                                     "helix_angle": 15, "herringbone": True,
                                                     "groove": 7, "profile_shift": 1,

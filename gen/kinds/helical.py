@@ -97,13 +97,18 @@ def helix_slice_check(name, sizes, twist: float, chevron: bool, face: float,
 
 def rack_helix_check(name, pitch: float, shear: float, chevron: bool, face: float):
     """Measure the tooth-trace slope of a helical rack on two slices: Δx = Δz·tan β."""
+    from gen.errors import GeometryError
     from gen.validate.helix import fold, linear_offset
 
     def check(polys_at):
         span = face / 2.0 if chevron else face
         z_a, z_b = 0.1 * span, 0.9 * span
         pa, pb = max(polys_at(z_a), key=len), max(polys_at(z_b), key=len)
-        got = linear_offset(pa, pb, 0.0, pitch)
+        try:
+            got = linear_offset(pa, pb, 0.0, pitch)
+        except GeometryError as exc:
+            return [Finding(ERROR, "helix", f"mesh: {exc}", name, "tan β = Δx/Δz",
+                            key="helix_angle")]
         want = fold(shear * (z_b - z_a), pitch)
         if abs(got - want) > 1e-3 * pitch:
             return [Finding(ERROR, "helix", f"mesh: tooth traces shift {got:.4f} mm over "
