@@ -56,11 +56,18 @@ def helix_measure_radius(sizes, r_form: float) -> float:
     return 0.5 * (max(sizes.rf, r_form) + sizes.ra)
 
 
+def _largest(polys):
+    return max(polys, key=len)
+
+
 def helix_slice_check(name, sizes, twist: float, chevron: bool, face: float,
-                      groove: float = 0.0, r_form: float = 0.0, chord: float = 0.0):
+                      groove: float = 0.0, r_form: float = 0.0, chord: float = 0.0,
+                      pick=_largest):
     """Measure the helix on slices of the exported mesh: the turn between two heights is
     Δz·tan β / r_p within 0.05° plus what the mesh's ``chord`` tolerance (mm) allows, and a
-    herringbone's halves mirror about the mid-plane."""
+    herringbone's halves mirror about the mid-plane. ``pick`` chooses the toothed outline
+    among a slice's polygons (default the one of most vertices; a ring gives its toothed
+    hole); the circle measured on lies midway between the form (or root) and tip circles."""
     from gen.errors import GeometryError
     from gen.validate.helix import check_gear_helix, check_herringbone_mirror, mesh_angle_tol
 
@@ -79,14 +86,13 @@ def helix_slice_check(name, sizes, twist: float, chevron: bool, face: float,
         out = []
         span = (face - groove) / 2.0 if chevron else face   # toothed height of one helix
         z_a, z_b = 0.1 * span, 0.9 * span
-        pa = max(polys_at(z_a), key=len)
-        pb = max(polys_at(z_b), key=len)
+        pa, pb = pick(polys_at(z_a)), pick(polys_at(z_b))
         out += [Finding(f.severity, f.code, f.message, name, f.source, key=f.key)
                 for f in check_gear_helix(pa, pb, z_b - z_a, beta_signed, sizes.rp, subject=name,
                                           tol=tol, r_measure=r_m)]
         if chevron:
             zm = face / 2.0
-            pairs = [(max(polys_at(zm - t), key=len), max(polys_at(zm + t), key=len))
+            pairs = [(pick(polys_at(zm - t)), pick(polys_at(zm + t)))
                      for t in (groove / 2.0 + 0.2 * span, groove / 2.0 + 0.8 * span)]
             out += [Finding(f.severity, f.code, f.message, name, f.source, key=f.key)
                     for f in check_herringbone_mirror(pairs, r_m, subject=name, tol=tol)]
@@ -103,7 +109,7 @@ def rack_helix_check(name, pitch: float, shear: float, chevron: bool, face: floa
     def check(polys_at):
         span = face / 2.0 if chevron else face
         z_a, z_b = 0.1 * span, 0.9 * span
-        pa, pb = max(polys_at(z_a), key=len), max(polys_at(z_b), key=len)
+        pa, pb = _largest(polys_at(z_a)), _largest(polys_at(z_b))
         try:
             got = linear_offset(pa, pb, 0.0, pitch)
         except GeometryError as exc:

@@ -28,7 +28,7 @@ import functools
 import math
 
 from gen.errors import GeometryError
-from gen.findings import ERROR, INFO, WARNING, Finding
+from gen.findings import INFO, WARNING, Finding
 from gen.geometry.basic_rack import basic_rack
 from gen.geometry.body import Body, Prism, gear_twist
 from gen.geometry.internal import ring_base_tip_limit
@@ -132,8 +132,13 @@ def make_ring(name: str, values: dict, where, *, kind: str = KIND) -> Part:
     checks = [ring_slice_check(name, sizes, z_slice, chord + TOL.slice_extra,
                                2 * chord + TOL.slice_extra + TOL.thickness_rel * m, in_involute)]
     if beta:
-        checks.append(_helix_check(name, sizes, twist, chevron, b, values["groove"],
-                                   chord))
+        from gen.kinds.helical import helix_slice_check
+        from gen.validate.ring_checks import toothed_hole
+
+        # the toothed hole, measured midway between tip and root (with x = 1 a ring's tips lie
+        # outside r_p); the turn is the same on every radius
+        checks.append(helix_slice_check(name, sizes, twist, chevron, b, values["groove"],
+                                        chord=chord, pick=toothed_hole))
     dxf = Section(section.outer, section.holes + tuple(bolts))
     manifest = {
         "module": sizes.mn, "teeth": z, "pressure_angle": math.degrees(sizes.alpha_n),
@@ -246,40 +251,3 @@ def _prisms(section, b, twist, chevron, groove, rim_d, sizes, bolts, where):
     solids, _ = twisted_gear_body(section, b, twist, chevron, groove, rim_d / 2.0,
                                   (circle(sizes.rf),), where)
     return list(solids), cuts
-
-
-def _helix_check(name, sizes, twist, chevron, face, groove, chord):
-    """The helix measured on slices of the toothed hole (turn between two heights), within
-    what the mesh's ``chord`` tolerance (mm) allows. The turn is the same on every radius; it
-    is measured midway between the tip and root circles, which crosses every space whatever
-    the shift (with x = 1 the tips lie outside the reference circle)."""
-    from gen.validate.helix import check_gear_helix, check_herringbone_mirror, mesh_angle_tol
-    from gen.validate.ring_checks import toothed_hole
-
-    beta_signed = math.copysign(sizes.beta, twist)
-    r_m = 0.5 * (sizes.ra + sizes.rf)
-    tol = mesh_angle_tol(chord, r_m)
-
-    def check(polys_at):
-        try:
-            return _check(polys_at)
-        except GeometryError as exc:
-            return [Finding(ERROR, "helix", f"mesh: {exc}", name, "tan β = Δθ·r_p/Δz",
-                            key="helix_angle")]
-
-    def _check(polys_at):
-        span = (face - groove) / 2.0 if chevron else face
-        z_a, z_b = 0.1 * span, 0.9 * span
-        pa, pb = toothed_hole(polys_at(z_a)), toothed_hole(polys_at(z_b))
-        out = [Finding(f.severity, f.code, f.message, name, f.source)
-               for f in check_gear_helix(pa, pb, z_b - z_a, beta_signed, sizes.rp, subject=name,
-                                         tol=tol, r_measure=r_m)]
-        if chevron:
-            zm = face / 2.0
-            pairs = [(toothed_hole(polys_at(zm - t)), toothed_hole(polys_at(zm + t)))
-                     for t in (groove / 2.0 + 0.2 * span, groove / 2.0 + 0.8 * span)]
-            out += [Finding(f.severity, f.code, f.message, name, f.source)
-                    for f in check_herringbone_mirror(pairs, r_m, subject=name, tol=tol)]
-        return out
-
-    return check
